@@ -1,0 +1,3 @@
+//! The spinwright command-line entry point.
+
+fn main() {}

@@ -1,0 +1,12 @@
+//! The physics core: pure functions of typed SI inputs, no files, no terminal.
+//!
+//! One file per part of the model (see `docs/model.md`):
+//! - [`design`]: the inputs (M1 frames and sign conventions).
+//! - [`fluid`]: water and air properties (M11).
+//! - [`pipe`]: friction factors and duct losses (M3, M4).
+//! - [`jet`]: a jet at the nozzle exit, the hand-over to the throw (M7).
+
+pub mod design;
+pub mod fluid;
+pub mod jet;
+pub mod pipe;
