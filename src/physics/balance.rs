@@ -1,0 +1,666 @@
+//! Equilibrium, start, runaway, spin-up and power (model.md M6).
+//!
+//! net(ω) = T_drive(ω) − T_resist(ω), both in the drive sense convention of
+//! [`super::torque`]. Every root of net on (0, ω_cap] is found by a scan on a
+//! geometric grid followed by Brent's method on each sign change; a root is
+//! stable when net falls through zero (d net/dω < 0). The operating point is
+//! the lowest stable root, which is where a rotor that starts from rest settles.
+//!
+//! ω_cap is the higher of three times the frictionless runaway speed and the
+//! speed at which the outermost nozzle moves at 150 m/s. The start check
+//! compares the stall torque T_drive(0) with the breakaway torque (static
+//! bearing friction plus seal drag at rest). Spin-up integrates I dω/dt = net(ω)
+//! from rest by the classical fourth-order Runge–Kutta method.
+
+use std::f64::consts::PI;
+
+use super::design::{Design, Inertia};
+use super::hydraulics::{supply_state, Fluids, SupplyState};
+use super::jet::JetExit;
+use super::root::{brent, RootError, Tolerance};
+use super::torque::{
+    drive_torque, jet_kinetic_power_w, jets, resisting_torque, Motion, ResistingTorque,
+};
+
+/// Tip speed that bounds the equilibrium search, m/s.
+pub const CAP_TIP_SPEED_M_S: f64 = 150.0;
+/// Points in the geometric scan for sign changes of net torque.
+pub const SCAN_POINTS: usize = 160;
+/// Lowest scan speed as a fraction of ω_cap.
+const SCAN_FLOOR: f64 = 1e-6;
+
+/// rad/s → rpm.
+pub fn rpm(omega_rad_s: f64) -> f64 {
+    omega_rad_s * 60.0 / (2.0 * PI)
+}
+
+/// rpm → rad/s.
+pub fn rad_s(rpm: f64) -> f64 {
+    rpm * 2.0 * PI / 60.0
+}
+
+/// Drive, resisting and net torque at one speed, with the water path.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TorquePoint {
+    /// Rotor speed, rad/s.
+    pub omega_rad_s: f64,
+    /// Drive torque from the jets, N·m.
+    pub drive_n_m: f64,
+    /// Resisting torque by part, N·m.
+    pub resist: ResistingTorque,
+    /// Water path at this speed.
+    pub state: SupplyState,
+}
+
+impl TorquePoint {
+    /// Net accelerating torque, N·m.
+    pub fn net_n_m(&self) -> f64 {
+        self.drive_n_m - self.resist.total_n_m()
+    }
+}
+
+/// A design with its fluid properties, ready to be evaluated at any speed.
+#[derive(Debug, Clone)]
+pub struct SpinModel<'a> {
+    /// The design.
+    pub design: &'a Design,
+    /// Water and air at the design's conditions.
+    pub fluids: Fluids,
+}
+
+impl<'a> SpinModel<'a> {
+    /// Prepare a design for evaluation.
+    pub fn new(design: &'a Design) -> Self {
+        SpinModel {
+            design,
+            fluids: Fluids::for_design(design),
+        }
+    }
+
+    fn rho(&self) -> f64 {
+        self.fluids.water.density_kg_m3
+    }
+
+    /// Water path at speed ω, rad/s.
+    pub fn state(&self, omega_rad_s: f64) -> SupplyState {
+        supply_state(self.design, &self.fluids, omega_rad_s)
+    }
+
+    /// Torques while turning at ω (kinetic friction), N·m.
+    pub fn point(&self, omega_rad_s: f64) -> TorquePoint {
+        let state = self.state(omega_rad_s);
+        self.point_from(state, Motion::Turning)
+    }
+
+    fn point_from(&self, state: SupplyState, motion: Motion) -> TorquePoint {
+        let drive = drive_torque(self.design, &state, self.rho());
+        let resist = resisting_torque(self.design, &state, self.rho(), &self.fluids.air, motion);
+        TorquePoint {
+            omega_rad_s: state.omega_rad_s,
+            drive_n_m: drive,
+            resist,
+            state,
+        }
+    }
+
+    /// Net torque while turning at ω, N·m.
+    pub fn net(&self, omega_rad_s: f64) -> f64 {
+        self.point(omega_rad_s).net_n_m()
+    }
+
+    /// Drive torque alone at ω, N·m.
+    pub fn drive(&self, omega_rad_s: f64) -> f64 {
+        drive_torque(self.design, &self.state(omega_rad_s), self.rho())
+    }
+
+    /// Rotor inertia about the spin axis, kg·m².
+    pub fn inertia_kg_m2(&self) -> f64 {
+        rotor_inertia_kg_m2(self.design, self.rho())
+    }
+}
+
+/// Rotor inertia, kg·m²: given, or estimated from the arm tubes as thin
+/// rods from the hub radius to the tip, the water they hold, and tip masses.
+pub fn rotor_inertia_kg_m2(design: &Design, water_density: f64) -> f64 {
+    match design.rotor.inertia {
+        Inertia::Given { kg_m2 } => kg_m2,
+        Inertia::Estimate {
+            tube_density_kg_m3,
+            tube_wall_m,
+            tip_mass_kg,
+        } => {
+            let hub = design.rotor.hub_radius_m;
+            design
+                .rotor
+                .arms
+                .iter()
+                .map(|arm| {
+                    let outer = arm.tube.outer_m;
+                    let inner = (outer - 2.0 * tube_wall_m).max(0.0);
+                    let wall_per_m =
+                        tube_density_kg_m3 * PI / 4.0 * (outer * outer - inner * inner);
+                    let water_per_m = water_density * PI / 4.0 * arm.tube.bore_m.powi(2);
+                    let r3 = (arm.radius_m.powi(3) - hub.powi(3)).max(0.0) / 3.0;
+                    (wall_per_m + water_per_m) * r3 + tip_mass_kg * arm.radius_m.powi(2)
+                })
+                .sum()
+        }
+    }
+}
+
+/// Where the rotor ends up, in words a report can use.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum SpinStatus {
+    /// It starts from rest and settles at the operating point.
+    Running,
+    /// Stall torque does not beat breakaway torque: it will not start alone.
+    StallsAtRest,
+    /// It starts but finds no stable speed below ω_cap.
+    NoEquilibrium,
+}
+
+impl SpinStatus {
+    /// The fixed key used in reports ("running", "stalls_at_rest", "no_equilibrium").
+    pub fn key(&self) -> &'static str {
+        match self {
+            SpinStatus::Running => "running",
+            SpinStatus::StallsAtRest => "stalls_at_rest",
+            SpinStatus::NoEquilibrium => "no_equilibrium",
+        }
+    }
+}
+
+/// One root of net torque.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Equilibrium {
+    /// Speed, rad/s.
+    pub omega_rad_s: f64,
+    /// True when net torque falls through zero here.
+    pub stable: bool,
+}
+
+/// Time to come up to speed from rest.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct SpinUp {
+    /// Time to 90 % of the operating speed, s.
+    pub t90_s: f64,
+    /// Time to 99 % of the operating speed, s.
+    pub t99_s: f64,
+}
+
+/// Power balance at the operating point, W.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct PowerBalance {
+    /// Shaft power T·ω, all of it ending as friction heat, W.
+    pub shaft_w: f64,
+    /// Hydraulic power delivered at the inlet, p_inlet·Q, W.
+    pub hydraulic_w: f64,
+    /// Kinetic power of the jets in the ground frame, W.
+    pub jet_kinetic_w: f64,
+}
+
+/// Something the user should know about a result.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Warning {
+    /// A nozzle passes no water at the operating state (or at rest).
+    NozzleNotFlowing {
+        /// Arm index, from 0.
+        arm: usize,
+    },
+    /// The hub pressure is below the water's vapour pressure: the arm would draw air or cavitate.
+    HubBelowVapour {
+        /// Hub gauge pressure, Pa.
+        hub_pressure_pa: f64,
+    },
+    /// It will not start by itself but would keep turning if spun by hand.
+    KeepsTurningOnceSpun,
+    /// No stable speed below the search cap.
+    NoEquilibriumBelow {
+        /// The cap, rad/s.
+        cap_rad_s: f64,
+    },
+    /// There are equilibria other than the operating point.
+    OtherEquilibria {
+        /// How many.
+        count: usize,
+    },
+    /// Frictionless, it would never stop accelerating (fixed pressure, near-tangential jets).
+    NoFiniteRunaway,
+    /// Supply pressure above the usual 80 psi regulator limit (common practice).
+    HighSupplyPressure {
+        /// Gauge pressure at the inlet, Pa.
+        pressure_pa: f64,
+    },
+    /// Static friction coefficient below kinetic: unusual, check the inputs.
+    StaticBelowKinetic,
+    /// A root search failed; the bracket is in the error.
+    RootSearch(RootError),
+    /// The jets give no torque at rest (all radial, or braking).
+    NoDriveAtRest,
+}
+
+impl std::fmt::Display for Warning {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            Warning::NozzleNotFlowing { arm } => write!(
+                f,
+                "nozzle on arm {} is not flowing: the pressure at it is zero or less",
+                arm + 1
+            ),
+            Warning::HubBelowVapour { hub_pressure_pa } => write!(
+                f,
+                "hub pressure {:.0} kPa gauge is below vapour pressure: the arms would draw air",
+                hub_pressure_pa / 1000.0
+            ),
+            Warning::KeepsTurningOnceSpun => {
+                write!(f, "stalls at rest, but keeps turning once spun by hand")
+            }
+            Warning::NoEquilibriumBelow { cap_rad_s } => write!(
+                f,
+                "no equilibrium below {:.0} rpm (add drag or a brake)",
+                rpm(*cap_rad_s)
+            ),
+            Warning::OtherEquilibria { count } => write!(
+                f,
+                "{count} other equilibri{} besides the operating point",
+                if *count == 1 { "um" } else { "a" }
+            ),
+            Warning::NoFiniteRunaway => write!(
+                f,
+                "no finite runaway speed: the centrifugal pressure rise keeps the jets ahead of the arm"
+            ),
+            Warning::HighSupplyPressure { pressure_pa } => write!(
+                f,
+                "inlet pressure {:.0} kPa is above 552 kPa (80 psi): fit a pressure regulator",
+                pressure_pa / 1000.0
+            ),
+            Warning::StaticBelowKinetic => write!(
+                f,
+                "static friction coefficient is below the kinetic one: check the bearing inputs"
+            ),
+            Warning::RootSearch(e) => write!(f, "{e}"),
+            Warning::NoDriveAtRest => write!(
+                f,
+                "the jets give no drive torque at rest (nozzles radial or facing forward)"
+            ),
+        }
+    }
+}
+
+/// The operating point in full.
+#[derive(Debug, Clone, PartialEq)]
+pub struct OperatingPoint {
+    /// Torques and water path at the operating speed.
+    pub point: TorquePoint,
+    /// Jets at the exit of every flowing nozzle.
+    pub jets: Vec<JetExit>,
+    /// Stability (always true for an operating point found from rest).
+    pub stable: bool,
+}
+
+impl OperatingPoint {
+    /// Speed, rad/s.
+    pub fn omega_rad_s(&self) -> f64 {
+        self.point.omega_rad_s
+    }
+}
+
+/// Everything the spin solver says about one design.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SpinReport {
+    /// Where it ends up.
+    pub status: SpinStatus,
+    /// The operating point when running (None when stalled or unbounded).
+    pub operating: Option<OperatingPoint>,
+    /// Every root of net torque on (0, ω_cap], lowest first.
+    pub equilibria: Vec<Equilibrium>,
+    /// Drive torque at rest, N·m.
+    pub stall_torque_n_m: f64,
+    /// Torque needed to start from rest, N·m.
+    pub breakaway_torque_n_m: f64,
+    /// Stall over breakaway torque (None when breakaway is zero).
+    pub start_margin: Option<f64>,
+    /// Frictionless runaway speed, rad/s (None when there is none).
+    pub runaway_rad_s: Option<f64>,
+    /// Upper end of the equilibrium search, rad/s.
+    pub omega_cap_rad_s: f64,
+    /// The water path at rest.
+    pub at_rest: SupplyState,
+    /// Spin-up times, when running.
+    pub spin_up: Option<SpinUp>,
+    /// Power balance at the operating point.
+    pub power: Option<PowerBalance>,
+    /// Rotor inertia used for spin-up, kg·m².
+    pub inertia_kg_m2: f64,
+    /// What the user should know.
+    pub warnings: Vec<Warning>,
+}
+
+fn root_tolerance(span: f64, scale: f64) -> Tolerance {
+    Tolerance {
+        x: 1e-14 * span,
+        f: 1e-13 * scale,
+        max_iter: 200,
+    }
+}
+
+/// Scan speeds: a geometric grid from `floor·cap` to `cap`.
+fn scan_grid(cap: f64, points: usize) -> impl Iterator<Item = f64> {
+    let ratio = (1.0 / SCAN_FLOOR).powf(1.0 / (points as f64 - 1.0));
+    (0..points).map(move |k| cap * SCAN_FLOOR * ratio.powi(k as i32))
+}
+
+/// All roots of `f` on the scan grid up to `cap`, each polished by Brent.
+/// Returns (ω, stable) pairs and any root-search failures.
+fn scan_roots(
+    mut f: impl FnMut(f64) -> f64,
+    cap: f64,
+    scale: f64,
+    first_only: bool,
+) -> (Vec<Equilibrium>, Vec<RootError>) {
+    let mut found = Vec::new();
+    let mut errors = Vec::new();
+    let mut prev: Option<(f64, f64)> = None;
+    for w in scan_grid(cap, SCAN_POINTS) {
+        let y = f(w);
+        if let Some((w0, y0)) = prev {
+            if y0 == 0.0 {
+                found.push(Equilibrium {
+                    omega_rad_s: w0,
+                    stable: y < 0.0,
+                });
+            } else if y0.signum() != y.signum() && y != 0.0 {
+                match brent(&mut f, w0, w, root_tolerance(w - w0, scale)) {
+                    Ok(root) => found.push(Equilibrium {
+                        omega_rad_s: root,
+                        stable: y0 > 0.0,
+                    }),
+                    Err(e) => errors.push(e),
+                }
+            }
+            if first_only && !found.is_empty() {
+                break;
+            }
+        }
+        prev = Some((w, y));
+    }
+    (found, errors)
+}
+
+/// Solve one design: start check, equilibria, operating point, spin-up, power.
+pub fn solve(design: &Design) -> SpinReport {
+    let model = SpinModel::new(design);
+    let mut warnings = Vec::new();
+    let r_max = design
+        .rotor
+        .arms
+        .iter()
+        .map(|a| a.radius_m)
+        .fold(0.0_f64, f64::max)
+        .max(1e-6);
+    let tip_cap = CAP_TIP_SPEED_M_S / r_max;
+
+    // At rest: stall torque and breakaway.
+    let rest_state = model.state(0.0);
+    let rest = model.point_from(rest_state.clone(), Motion::Breakaway);
+    let stall = rest.drive_n_m;
+    let breakaway = rest.resist.total_n_m();
+    let torque_scale = stall.abs().max(breakaway).max(1e-12);
+    let start_margin = (breakaway > 0.0).then(|| stall / breakaway);
+    if stall <= 0.0 {
+        warnings.push(Warning::NoDriveAtRest);
+    }
+    if let super::design::Bearing::Washer(w) = design.friction.bearing {
+        if w.mu_static < w.mu_kinetic {
+            warnings.push(Warning::StaticBelowKinetic);
+        }
+    }
+
+    // Frictionless runaway: first fall of drive torque through zero.
+    let runaway = if stall > 0.0 {
+        let (roots, errs) = scan_roots(|w| model.drive(w), 10.0 * tip_cap, torque_scale, true);
+        warnings.extend(errs.into_iter().map(Warning::RootSearch));
+        roots.first().map(|e| e.omega_rad_s)
+    } else {
+        None
+    };
+    if runaway.is_none() && stall > 0.0 {
+        warnings.push(Warning::NoFiniteRunaway);
+    }
+    let cap = runaway.map_or(tip_cap, |r| (3.0 * r).max(tip_cap));
+
+    let (equilibria, errs) = scan_roots(|w| model.net(w), cap, torque_scale, false);
+    warnings.extend(errs.into_iter().map(Warning::RootSearch));
+
+    let starts = start_margin.map_or(stall > 0.0, |m| m > 1.0);
+    let inertia = model.inertia_kg_m2();
+    // The first root reached from rest is the operating point, if net is
+    // positive just off rest (kinetic friction) and that root is stable.
+    let first_stable = equilibria.iter().find(|e| e.stable).copied();
+    let spins_off_rest = model.net(cap * SCAN_FLOOR) > 0.0;
+    let reached = match (equilibria.first(), first_stable) {
+        (Some(first), Some(stable))
+            if spins_off_rest && first.omega_rad_s == stable.omega_rad_s =>
+        {
+            Some(stable)
+        }
+        _ => None,
+    };
+
+    let status = if !starts || !spins_off_rest {
+        if reached.is_some() || !equilibria.is_empty() || spins_off_rest {
+            warnings.push(Warning::KeepsTurningOnceSpun);
+        }
+        SpinStatus::StallsAtRest
+    } else if reached.is_some() {
+        SpinStatus::Running
+    } else {
+        warnings.push(Warning::NoEquilibriumBelow { cap_rad_s: cap });
+        SpinStatus::NoEquilibrium
+    };
+
+    let operating = match (status, reached) {
+        (SpinStatus::Running, Some(eq)) => {
+            let point = model.point(eq.omega_rad_s);
+            let jets = jets(design, &point.state);
+            Some(OperatingPoint {
+                point,
+                jets,
+                stable: eq.stable,
+            })
+        }
+        _ => None,
+    };
+    if let Some(op) = &operating {
+        let others = equilibria.len() - 1;
+        if others > 0 {
+            warnings.push(Warning::OtherEquilibria { count: others });
+        }
+        note_state(&op.point.state, &model, &mut warnings);
+    } else {
+        note_state(&rest_state, &model, &mut warnings);
+    }
+
+    let spin_up = operating.as_ref().and_then(|op| {
+        spin_up_times(
+            &model,
+            inertia,
+            op.omega_rad_s(),
+            stall - rest_kinetic(&model),
+        )
+    });
+    let power = operating.as_ref().map(|op| PowerBalance {
+        shaft_w: op.point.drive_n_m * op.omega_rad_s(),
+        hydraulic_w: op.point.state.inlet_pressure_pa * op.point.state.total_flow_m3_s,
+        jet_kinetic_w: jet_kinetic_power_w(design, &op.point.state, model.rho()),
+    });
+
+    SpinReport {
+        status,
+        operating,
+        equilibria,
+        stall_torque_n_m: stall,
+        breakaway_torque_n_m: breakaway,
+        start_margin,
+        runaway_rad_s: runaway,
+        omega_cap_rad_s: cap,
+        at_rest: rest_state,
+        spin_up,
+        power,
+        inertia_kg_m2: inertia,
+        warnings,
+    }
+}
+
+/// Resisting torque just after breakaway (kinetic friction at ω = 0), N·m.
+fn rest_kinetic(model: &SpinModel) -> f64 {
+    model.point(0.0).resist.total_n_m()
+}
+
+fn note_state(state: &SupplyState, model: &SpinModel, warnings: &mut Vec<Warning>) {
+    for (arm, n) in state.nozzles.iter().enumerate() {
+        if !n.flowing {
+            warnings.push(Warning::NozzleNotFlowing { arm });
+        }
+    }
+    let absolute = state.hub_pressure_pa + model.fluids.air.pressure_pa;
+    if absolute < model.fluids.water.vapour_pressure_pa {
+        warnings.push(Warning::HubBelowVapour {
+            hub_pressure_pa: state.hub_pressure_pa,
+        });
+    }
+    if state.inlet_pressure_pa > 551_580.0 {
+        warnings.push(Warning::HighSupplyPressure {
+            pressure_pa: state.inlet_pressure_pa,
+        });
+    }
+}
+
+/// RK4 on I dω/dt = net(ω) from rest; times to 90 % and 99 % of `omega_op`.
+///
+/// The step is an eighth of the smaller of two time scales: the settling
+/// constant I/|d net/dω| at the operating point and the rise time I·ω_op/net(0).
+/// Crossing times are read off the cubic Hermite interpolant of each step.
+pub fn spin_up_times(
+    model: &SpinModel,
+    inertia: f64,
+    omega_op: f64,
+    net_at_rest: f64,
+) -> Option<SpinUp> {
+    if inertia <= 0.0 || omega_op <= 0.0 {
+        return None;
+    }
+    let h = 1e-4 * omega_op;
+    let slope = (model.net(omega_op + h) - model.net((omega_op - h).max(0.0))) / (2.0 * h);
+    let settle = if slope < 0.0 {
+        inertia / -slope
+    } else {
+        f64::INFINITY
+    };
+    let rise = if net_at_rest > 0.0 {
+        inertia * omega_op / net_at_rest
+    } else {
+        settle
+    };
+    let dt = settle.min(rise) / 8.0;
+    if !dt.is_finite() || dt <= 0.0 {
+        return None;
+    }
+    let accel = |w: f64| model.net(w) / inertia;
+    let targets = [0.9 * omega_op, 0.99 * omega_op];
+    let mut times = [None, None];
+    let (mut t, mut w, mut a) = (0.0, 0.0, accel(0.0));
+    for _ in 0..100_000 {
+        let k1 = a;
+        let k2 = accel(w + 0.5 * dt * k1);
+        let k3 = accel(w + 0.5 * dt * k2);
+        let k4 = accel(w + dt * k3);
+        let w1 = w + dt / 6.0 * (k1 + 2.0 * k2 + 2.0 * k3 + k4);
+        let a1 = accel(w1);
+        for (slot, &target) in times.iter_mut().zip(&targets) {
+            if slot.is_none() && w1 >= target {
+                *slot = Some(t + dt * hermite_crossing(w, w1, a * dt, a1 * dt, target));
+            }
+        }
+        if times.iter().all(Option::is_some) {
+            break;
+        }
+        (t, w, a) = (t + dt, w1, a1);
+    }
+    match times {
+        [Some(t90_s), Some(t99_s)] => Some(SpinUp { t90_s, t99_s }),
+        _ => None,
+    }
+}
+
+/// Fraction s ∈ [0, 1] of a step at which the cubic Hermite interpolant through
+/// (w0, m0) and (w1, m1) (slopes per unit s) reaches `target`.
+fn hermite_crossing(w0: f64, w1: f64, m0: f64, m1: f64, target: f64) -> f64 {
+    let value = |s: f64| {
+        let s2 = s * s;
+        let s3 = s2 * s;
+        (2.0 * s3 - 3.0 * s2 + 1.0) * w0
+            + (s3 - 2.0 * s2 + s) * m0
+            + (-2.0 * s3 + 3.0 * s2) * w1
+            + (s3 - s2) * m1
+    };
+    let (mut lo, mut hi) = (0.0, 1.0);
+    for _ in 0..60 {
+        let mid = 0.5 * (lo + hi);
+        if value(mid) < target {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+    }
+    0.5 * (lo + hi)
+}
+
+/// One row of the torque–speed table.
+pub type TableRow = TorquePoint;
+
+/// Torque–speed table from rest to past runaway, `points` rows (at least 2).
+///
+/// The top speed is 1.15 × the frictionless runaway when there is one, else
+/// 1.5 × the highest equilibrium, else ω_cap.
+pub fn torque_table(design: &Design, report: &SpinReport, points: usize) -> Vec<TableRow> {
+    let model = SpinModel::new(design);
+    let top = table_top_speed(report);
+    let n = points.max(2);
+    (0..n)
+        .map(|k| model.point(top * k as f64 / (n - 1) as f64))
+        .collect()
+}
+
+/// The top speed of the torque–speed table, rad/s.
+pub fn table_top_speed(report: &SpinReport) -> f64 {
+    if let Some(r) = report.runaway_rad_s {
+        1.15 * r
+    } else if let Some(e) = report.equilibria.last() {
+        1.5 * e.omega_rad_s
+    } else {
+        report.omega_cap_rad_s
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::physics::fixtures::three_arm_rotor;
+
+    #[test]
+    fn three_arm_rotor_runs_and_balances() {
+        let d = three_arm_rotor();
+        let r = solve(&d);
+        println!("{:#?}", r.status);
+        let op = r.operating.as_ref().expect("running");
+        let p = &op.point;
+        println!(
+            "rpm {:.2} drive {:.5} resist {:?} flow {:.3} L/min hub {:.1} kPa stall {:.4} brk {:.4} runaway {:?} spinup {:?} I {:.3e} warnings {:?}",
+            rpm(p.omega_rad_s), p.drive_n_m, p.resist, p.state.total_flow_m3_s * 60000.0,
+            p.state.hub_pressure_pa / 1000.0, r.stall_torque_n_m, r.breakaway_torque_n_m,
+            r.runaway_rad_s.map(rpm), r.spin_up, r.inertia_kg_m2, r.warnings
+        );
+        assert!(p.net_n_m().abs() <= 1e-9 * p.drive_n_m);
+    }
+}

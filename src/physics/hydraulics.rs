@@ -1,0 +1,365 @@
+//! Nozzle, arm and supply hydraulics in the rotating frame (model.md M3, M4).
+//!
+//! For nozzle i at radius Rᵢ, fed from the hub through its own arm tube:
+//!
+//! ```text
+//! Δp_nozzle,i = p_hub + ½ρω²Rᵢ² − ρgΔzᵢ − Δp_arm,i(Qᵢ)
+//! Qᵢ = C_d · (π dᵢ²/4) · √(2 Δp_nozzle,i / ρ)
+//! Wᵢ = C_v · √(2 Δp_nozzle,i / ρ)
+//! ```
+//!
+//! ½ρω²R² is the centrifugal pressure rise of the water turning with the arm.
+//! The supply (fixed inlet pressure, fixed total flow, or a source through a
+//! hose) is solved afresh at every ω, so flows, hub pressure and jet speeds are
+//! all functions of ω. Pressures are gauge, Pa; flows m³/s.
+//!
+//! Both the per-nozzle flow and the hub pressure are found by a safeguarded
+//! Newton iteration inside a bracket that is known to hold the root, so each
+//! solve is robust (bisection when Newton leaves the bracket) and cheap (two to
+//! four steps from a good start). The functions are monotone, so the root is unique.
+
+use std::f64::consts::PI;
+
+use super::design::{Arm, Design, Line, Supply, GRAVITY_M_S2};
+use super::fluid::{AirProps, WaterProps};
+use super::pipe::Duct;
+
+/// Water and air properties for one design.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Fluids {
+    /// Water at the design's water temperature.
+    pub water: WaterProps,
+    /// Air at the design's site.
+    pub air: AirProps,
+}
+
+impl Fluids {
+    /// Properties for a design's water temperature and site.
+    pub fn for_design(design: &Design) -> Self {
+        Fluids {
+            water: WaterProps::at(design.water_temperature_c),
+            air: AirProps::at(design.site.air_temperature_c, design.site.altitude_m),
+        }
+    }
+}
+
+/// The state of one nozzle at one speed and hub pressure.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct NozzleFlow {
+    /// Volumetric flow, m³/s (0 when not flowing).
+    pub flow_m3_s: f64,
+    /// Pressure drop across the nozzle, Pa (what makes the jet; 0 when not flowing).
+    pub nozzle_pressure_pa: f64,
+    /// Friction and minor losses in the arm tube, Pa.
+    pub arm_loss_pa: f64,
+    /// Centrifugal pressure rise ½ρω²R², Pa.
+    pub centrifugal_rise_pa: f64,
+    /// Jet speed relative to the arm, m/s.
+    pub jet_speed_relative_m_s: f64,
+    /// False when the pressure available at the nozzle is zero or less.
+    pub flowing: bool,
+    /// dQ/dp_hub at this state, m³/(s·Pa) (used by the supply solve).
+    pub dflow_dpressure: f64,
+}
+
+/// The whole water path at one rotor speed.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SupplyState {
+    /// Rotor speed, rad/s.
+    pub omega_rad_s: f64,
+    /// Gauge pressure at the sprinkler inlet (after any hose), Pa.
+    pub inlet_pressure_pa: f64,
+    /// Gauge pressure in the hub, after the swivel, Pa.
+    pub hub_pressure_pa: f64,
+    /// Total flow through the sprinkler, m³/s.
+    pub total_flow_m3_s: f64,
+    /// Loss in the hose (Line supply), Pa; 0 otherwise.
+    pub line_loss_pa: f64,
+    /// Loss in the swivel, Pa.
+    pub swivel_loss_pa: f64,
+    /// One entry per arm, in arm order.
+    pub nozzles: Vec<NozzleFlow>,
+}
+
+/// Flow-independent terms of one nozzle's energy balance.
+#[derive(Debug, Clone, Copy)]
+struct NozzleCoeffs {
+    /// ½ρ/(C_d A)²: Δp_nozzle = a·Q², Pa·s²/m⁶.
+    a: f64,
+    /// ½ρω²R² − ρgΔz, Pa.
+    head_gain_pa: f64,
+    /// Centrifugal rise alone, Pa.
+    rise_pa: f64,
+    cv: f64,
+    tube: Duct,
+}
+
+fn nozzle_coeffs(arm: &Arm, omega: f64, water: &WaterProps) -> NozzleCoeffs {
+    let rho = water.density_kg_m3;
+    let area = PI * arm.nozzle.diameter_m.powi(2) / 4.0;
+    let cd_area = arm.nozzle.cd * area;
+    let rise = 0.5 * rho * omega * omega * arm.radius_m * arm.radius_m;
+    NozzleCoeffs {
+        a: 0.5 * rho / (cd_area * cd_area),
+        head_gain_pa: rise - rho * GRAVITY_M_S2 * arm.rise_m,
+        rise_pa: rise,
+        cv: arm.nozzle.cv,
+        tube: Duct {
+            bore_m: arm.tube.bore_m,
+            length_m: arm.tube_length_m(),
+            roughness_m: arm.tube.roughness_m,
+            minor_k: arm.tube.minor_k,
+        },
+    }
+}
+
+/// Safeguarded Newton on an increasing function `f` with `f(lo) < 0 < f(hi)`.
+///
+/// `f` returns (value, slope); the slope may be approximate. Stops when the
+/// step is below `x_tol` or |f| below `f_tol`. Falls back to bisection when a
+/// Newton step would leave the bracket.
+fn bracketed_newton(
+    mut f: impl FnMut(f64) -> (f64, f64),
+    mut lo: f64,
+    mut hi: f64,
+    start: f64,
+    x_tol: f64,
+    f_tol: f64,
+) -> f64 {
+    let mut x = start.clamp(lo, hi);
+    for _ in 0..100 {
+        let (fx, dfx) = f(x);
+        if fx.abs() <= f_tol {
+            return x;
+        }
+        if fx < 0.0 {
+            lo = x;
+        } else {
+            hi = x;
+        }
+        let newton = if dfx > 0.0 { x - fx / dfx } else { f64::NAN };
+        let next = if newton.is_finite() && newton > lo && newton < hi {
+            newton
+        } else {
+            0.5 * (lo + hi)
+        };
+        if (next - x).abs() <= x_tol || hi - lo <= x_tol {
+            return next;
+        }
+        x = next;
+    }
+    x
+}
+
+/// Flow through one nozzle for a given hub gauge pressure and speed.
+///
+/// Solves a·Q² + Δp_arm(Q) = p_hub + ½ρω²R² − ρgΔz for Q ≥ 0.
+pub fn nozzle_flow(
+    arm: &Arm,
+    hub_pressure_pa: f64,
+    omega_rad_s: f64,
+    water: &WaterProps,
+) -> NozzleFlow {
+    let c = nozzle_coeffs(arm, omega_rad_s, water);
+    solve_nozzle(&c, hub_pressure_pa, water, None)
+}
+
+fn solve_nozzle(
+    c: &NozzleCoeffs,
+    p_hub: f64,
+    water: &WaterProps,
+    guess: Option<f64>,
+) -> NozzleFlow {
+    let rho = water.density_kg_m3;
+    let mu = water.viscosity_pa_s;
+    let available = p_hub + c.head_gain_pa;
+    if available <= 0.0 {
+        return NozzleFlow {
+            flow_m3_s: 0.0,
+            nozzle_pressure_pa: 0.0,
+            arm_loss_pa: 0.0,
+            centrifugal_rise_pa: c.rise_pa,
+            jet_speed_relative_m_s: 0.0,
+            flowing: false,
+            dflow_dpressure: 0.0,
+        };
+    }
+    let q_max = (available / c.a).sqrt();
+    // Residual and slope of a·Q² + Δp_arm(Q) − available. The slope holds the
+    // friction factor fixed over the step (2Δp/Q); exact for the quadratic parts.
+    let residual = |q: f64| {
+        let arm = c.tube.loss_pa(q, rho, mu);
+        let value = c.a * q * q + arm - available;
+        let slope = 2.0 * c.a * q + if q > 0.0 { 2.0 * arm / q } else { 0.0 };
+        (value, slope)
+    };
+    let start = match guess {
+        Some(g) if g > 0.0 && g < q_max => g,
+        _ => {
+            let k = c.tube.loss_pa(q_max, rho, mu) / (q_max * q_max);
+            (available / (c.a + k)).sqrt()
+        }
+    };
+    let q = bracketed_newton(
+        residual,
+        0.0,
+        q_max,
+        start,
+        1e-14 * q_max,
+        1e-13 * available,
+    );
+    let arm_loss = c.tube.loss_pa(q, rho, mu);
+    let dp_nozzle = (available - arm_loss).max(0.0);
+    let slope = residual(q).1;
+    NozzleFlow {
+        flow_m3_s: q,
+        nozzle_pressure_pa: dp_nozzle,
+        arm_loss_pa: arm_loss,
+        centrifugal_rise_pa: c.rise_pa,
+        jet_speed_relative_m_s: c.cv * (2.0 * dp_nozzle / rho).sqrt(),
+        flowing: true,
+        dflow_dpressure: if slope > 0.0 { 1.0 / slope } else { 0.0 },
+    }
+}
+
+/// The hose of a Line supply as a duct.
+fn line_duct(line: &Line) -> Duct {
+    Duct {
+        bore_m: line.bore_m,
+        length_m: line.length_m,
+        roughness_m: line.roughness_m,
+        minor_k: line.minor_k,
+    }
+}
+
+/// Swivel loss K·½ρ(Q/A_inlet)², Pa.
+fn swivel_loss(design: &Design, q: f64, rho: f64) -> f64 {
+    let area = PI * design.rotor.swivel.inlet_bore_m.powi(2) / 4.0;
+    let v = q / area;
+    design.rotor.swivel.k * 0.5 * rho * v * v
+}
+
+/// Solve the water path of `design` at speed `omega_rad_s`.
+pub fn supply_state(design: &Design, fluids: &Fluids, omega_rad_s: f64) -> SupplyState {
+    let water = &fluids.water;
+    let rho = water.density_kg_m3;
+    let coeffs: Vec<NozzleCoeffs> = design
+        .rotor
+        .arms
+        .iter()
+        .map(|arm| nozzle_coeffs(arm, omega_rad_s, water))
+        .collect();
+    // Below this hub pressure no nozzle flows.
+    let p_dead = coeffs
+        .iter()
+        .map(|c| -c.head_gain_pa)
+        .fold(f64::INFINITY, f64::min);
+    let all_nozzles = |p_hub: f64, guesses: &mut Vec<f64>| -> (Vec<NozzleFlow>, f64, f64) {
+        let flows: Vec<NozzleFlow> = coeffs
+            .iter()
+            .zip(guesses.iter())
+            .map(|(c, &g)| solve_nozzle(c, p_hub, water, Some(g)))
+            .collect();
+        for (g, f) in guesses.iter_mut().zip(&flows) {
+            *g = f.flow_m3_s;
+        }
+        let total = flows.iter().map(|f| f.flow_m3_s).sum();
+        let slope = flows.iter().map(|f| f.dflow_dpressure).sum();
+        (flows, total, slope)
+    };
+    let mut guesses = vec![0.0; coeffs.len()];
+
+    let (upstream_pa, line) = match design.supply {
+        Supply::Pressure { inlet_pa } => (inlet_pa, None),
+        Supply::Line(line) => (
+            line.source_pa - rho * GRAVITY_M_S2 * line.lift_m,
+            Some(line_duct(&line)),
+        ),
+        Supply::Flow { total_m3_s } => {
+            return flow_supply(design, water, omega_rad_s, total_m3_s, p_dead, all_nozzles);
+        }
+    };
+    let upstream_loss = |q: f64| {
+        let hose = line.map_or(0.0, |d| d.loss_pa(q, rho, water.viscosity_pa_s));
+        (hose, swivel_loss(design, q, rho))
+    };
+
+    let p_hub = if upstream_pa <= p_dead {
+        upstream_pa
+    } else {
+        // H(p) = p − upstream + loss(Q(p)), increasing in p; H(p_dead) < 0 ≤ H(upstream).
+        let residual = |p: f64, guesses: &mut Vec<f64>| {
+            let (_, q, dq) = all_nozzles(p, guesses);
+            let (hose, swivel) = upstream_loss(q);
+            let loss = hose + swivel;
+            let dloss = if q > 0.0 { 2.0 * loss / q } else { 0.0 };
+            (p - upstream_pa + loss, 1.0 + dloss * dq)
+        };
+        let span = upstream_pa - p_dead;
+        bracketed_newton(
+            |p| residual(p, &mut guesses),
+            p_dead,
+            upstream_pa,
+            upstream_pa,
+            1e-13 * span.max(1.0),
+            1e-12 * upstream_pa.abs().max(span),
+        )
+    };
+    let (nozzles, total, _) = all_nozzles(p_hub, &mut guesses);
+    let (hose, swivel) = upstream_loss(total);
+    SupplyState {
+        omega_rad_s,
+        inlet_pressure_pa: upstream_pa - hose,
+        hub_pressure_pa: p_hub,
+        total_flow_m3_s: total,
+        line_loss_pa: hose,
+        swivel_loss_pa: swivel,
+        nozzles,
+    }
+}
+
+/// Fixed total flow: find the hub pressure at which the nozzles pass it.
+fn flow_supply(
+    design: &Design,
+    water: &WaterProps,
+    omega_rad_s: f64,
+    total_m3_s: f64,
+    p_dead: f64,
+    mut all_nozzles: impl FnMut(f64, &mut Vec<f64>) -> (Vec<NozzleFlow>, f64, f64),
+) -> SupplyState {
+    let rho = water.density_kg_m3;
+    let mut guesses = vec![0.0; design.rotor.arms.len()];
+    // Expand upward from the dead pressure until the nozzles pass the flow.
+    let mut step = 1000.0_f64.max(p_dead.abs());
+    let mut hi = p_dead + step;
+    for _ in 0..200 {
+        if all_nozzles(hi, &mut guesses).1 >= total_m3_s {
+            break;
+        }
+        step *= 2.0;
+        hi = p_dead + step;
+    }
+    let span = hi - p_dead;
+    let p_hub = bracketed_newton(
+        |p| {
+            let (_, q, dq) = all_nozzles(p, &mut guesses);
+            (q - total_m3_s, dq)
+        },
+        p_dead,
+        hi,
+        hi,
+        1e-13 * span,
+        1e-13 * total_m3_s,
+    );
+    let (nozzles, total, _) = all_nozzles(p_hub, &mut guesses);
+    let swivel = swivel_loss(design, total, rho);
+    SupplyState {
+        omega_rad_s,
+        inlet_pressure_pa: p_hub + swivel,
+        hub_pressure_pa: p_hub,
+        total_flow_m3_s: total,
+        line_loss_pa: 0.0,
+        swivel_loss_pa: swivel,
+        nozzles,
+    }
+}
