@@ -1,0 +1,2 @@
+mod engine_properties;
+mod engine_reference;
