@@ -24,10 +24,16 @@ use super::torque::{
 
 /// Tip speed that bounds the equilibrium search, m/s.
 pub const CAP_TIP_SPEED_M_S: f64 = 150.0;
-/// Points in the geometric scan for sign changes of net torque.
-pub const SCAN_POINTS: usize = 160;
+/// Points in the geometric scan for sign changes of net torque (a 20 % step).
+pub const SCAN_POINTS: usize = 77;
 /// Lowest scan speed as a fraction of ω_cap.
 const SCAN_FLOOR: f64 = 1e-6;
+/// Points and floor of the runaway scan (up to ten times the tip-speed cap).
+const RUNAWAY_POINTS: usize = 52;
+const RUNAWAY_FLOOR: f64 = 1e-4;
+
+/// RK4 steps per time scale of the spin-up (see [`spin_up_times`]).
+pub const SPIN_UP_STEPS_PER_TIME_SCALE: f64 = 6.0;
 
 /// rad/s → rpm.
 pub fn rpm(omega_rad_s: f64) -> f64 {
@@ -344,45 +350,103 @@ fn root_tolerance(span: f64, scale: f64) -> Tolerance {
     }
 }
 
-/// Scan speeds: a geometric grid from `floor·cap` to `cap`.
-fn scan_grid(cap: f64, points: usize) -> impl Iterator<Item = f64> {
-    let ratio = (1.0 / SCAN_FLOOR).powf(1.0 / (points as f64 - 1.0));
-    (0..points).map(move |k| cap * SCAN_FLOOR * ratio.powi(k as i32))
+/// Scan speeds: a geometric grid of `points` from `floor·cap` to `cap`.
+fn scan_grid(cap: f64, floor: f64, points: usize) -> impl Iterator<Item = f64> {
+    let ratio = (1.0 / floor).powf(1.0 / (points as f64 - 1.0));
+    (0..points).map(move |k| cap * floor * ratio.powi(k as i32))
 }
 
-/// All roots of `f` on the scan grid up to `cap`, each polished by Brent.
-/// Returns (ω, stable) pairs and any root-search failures.
+/// Golden-section search for the point of `g` nearest zero on [a, c], where
+/// g has the sign of `sign` at both ends and at b inside. Returns a point
+/// where g changes sign, if the dip reaches through zero.
+fn dip_through_zero(f: &mut impl FnMut(f64) -> f64, a: f64, c: f64, sign: f64) -> Option<f64> {
+    let inv_phi = (5f64.sqrt() - 1.0) / 2.0;
+    let (mut lo, mut hi) = (a, c);
+    let mut x1 = hi - inv_phi * (hi - lo);
+    let mut x2 = lo + inv_phi * (hi - lo);
+    let (mut g1, mut g2) = (sign * f(x1), sign * f(x2));
+    for _ in 0..40 {
+        if g1 <= 0.0 {
+            return Some(x1);
+        }
+        if g2 <= 0.0 {
+            return Some(x2);
+        }
+        if g1 < g2 {
+            hi = x2;
+            (x2, g2) = (x1, g1);
+            x1 = hi - inv_phi * (hi - lo);
+            g1 = sign * f(x1);
+        } else {
+            lo = x1;
+            (x1, g1) = (x2, g2);
+            x2 = lo + inv_phi * (hi - lo);
+            g2 = sign * f(x2);
+        }
+    }
+    None
+}
+
+/// Every root of `f` on (0, cap], lowest first, each polished by Brent.
+///
+/// `at_zero` is f just above rest. Sign changes between grid points are
+/// bracketed directly; where |f| dips toward zero between grid points without
+/// changing sign, a golden-section search looks for a hidden pair of roots.
+/// Returns the roots as (ω, stable) and any root-search failures.
 fn scan_roots(
     mut f: impl FnMut(f64) -> f64,
+    at_zero: f64,
     cap: f64,
+    floor: f64,
+    points: usize,
     scale: f64,
     first_only: bool,
 ) -> (Vec<Equilibrium>, Vec<RootError>) {
     let mut found = Vec::new();
     let mut errors = Vec::new();
-    let mut prev: Option<(f64, f64)> = None;
-    for w in scan_grid(cap, SCAN_POINTS) {
+    let mut polish =
+        |f: &mut dyn FnMut(f64) -> f64, w0: f64, y0: f64, w1: f64, found: &mut Vec<Equilibrium>| {
+            match brent(f, w0, w1, root_tolerance(w1 - w0, scale)) {
+                Ok(root) => found.push(Equilibrium {
+                    omega_rad_s: root,
+                    stable: y0 > 0.0,
+                }),
+                Err(e) => errors.push(e),
+            }
+        };
+    let mut samples: Vec<(f64, f64)> = vec![(0.0, at_zero)];
+    for w in scan_grid(cap, floor, points) {
         let y = f(w);
-        if let Some((w0, y0)) = prev {
-            if y0 == 0.0 {
-                found.push(Equilibrium {
-                    omega_rad_s: w0,
-                    stable: y < 0.0,
-                });
-            } else if y0.signum() != y.signum() && y != 0.0 {
-                match brent(&mut f, w0, w, root_tolerance(w - w0, scale)) {
-                    Ok(root) => found.push(Equilibrium {
-                        omega_rad_s: root,
-                        stable: y0 > 0.0,
-                    }),
-                    Err(e) => errors.push(e),
+        let (w1, y1) = samples[samples.len() - 1];
+        if y1 == 0.0 && w1 > 0.0 {
+            found.push(Equilibrium {
+                omega_rad_s: w1,
+                stable: y < 0.0,
+            });
+        } else if y1 != 0.0 && y != 0.0 && y1.signum() != y.signum() {
+            polish(&mut f, w1, y1, w, &mut found);
+        } else if samples.len() >= 2 {
+            // A dip toward zero at the middle of the last three samples.
+            let (w0, y0) = samples[samples.len() - 2];
+            let same = y0.signum() == y1.signum() && y1.signum() == y.signum() && y1 != 0.0;
+            if same && y1.abs() < y0.abs() && y1.abs() < y.abs() {
+                let sign = y1.signum();
+                if let Some(m) = dip_through_zero(&mut f, w0, w, sign) {
+                    let ym = f(m);
+                    polish(&mut f, w0, y0, m, &mut found);
+                    polish(&mut f, m, ym, w, &mut found);
                 }
             }
-            if first_only && !found.is_empty() {
-                break;
-            }
         }
-        prev = Some((w, y));
+        samples.push((w, y));
+        if first_only && !found.is_empty() {
+            break;
+        }
+    }
+    found.sort_by(|a, b| a.omega_rad_s.total_cmp(&b.omega_rad_s));
+    found.dedup_by(|a, b| (a.omega_rad_s - b.omega_rad_s).abs() <= 1e-12 * b.omega_rad_s.abs());
+    if first_only {
+        found.truncate(1);
     }
     (found, errors)
 }
@@ -418,7 +482,15 @@ pub fn solve(design: &Design) -> SpinReport {
 
     // Frictionless runaway: first fall of drive torque through zero.
     let runaway = if stall > 0.0 {
-        let (roots, errs) = scan_roots(|w| model.drive(w), 10.0 * tip_cap, torque_scale, true);
+        let (roots, errs) = scan_roots(
+            |w| model.drive(w),
+            stall,
+            10.0 * tip_cap,
+            RUNAWAY_FLOOR,
+            RUNAWAY_POINTS,
+            torque_scale,
+            true,
+        );
         warnings.extend(errs.into_iter().map(Warning::RootSearch));
         roots.first().map(|e| e.omega_rad_s)
     } else {
@@ -429,7 +501,16 @@ pub fn solve(design: &Design) -> SpinReport {
     }
     let cap = runaway.map_or(tip_cap, |r| (3.0 * r).max(tip_cap));
 
-    let (equilibria, errs) = scan_roots(|w| model.net(w), cap, torque_scale, false);
+    let net_off_rest = model.point(0.0).net_n_m();
+    let (equilibria, errs) = scan_roots(
+        |w| model.net(w),
+        net_off_rest,
+        cap,
+        SCAN_FLOOR,
+        SCAN_POINTS,
+        torque_scale,
+        false,
+    );
     warnings.extend(errs.into_iter().map(Warning::RootSearch));
 
     let starts = start_margin.map_or(stall > 0.0, |m| m > 1.0);
@@ -437,7 +518,7 @@ pub fn solve(design: &Design) -> SpinReport {
     // The first root reached from rest is the operating point, if net is
     // positive just off rest (kinetic friction) and that root is stable.
     let first_stable = equilibria.iter().find(|e| e.stable).copied();
-    let spins_off_rest = model.net(cap * SCAN_FLOOR) > 0.0;
+    let spins_off_rest = net_off_rest > 0.0;
     let reached = match (equilibria.first(), first_stable) {
         (Some(first), Some(stable))
             if spins_off_rest && first.omega_rad_s == stable.omega_rad_s =>
@@ -481,14 +562,9 @@ pub fn solve(design: &Design) -> SpinReport {
         note_state(&rest_state, &model, &mut warnings);
     }
 
-    let spin_up = operating.as_ref().and_then(|op| {
-        spin_up_times(
-            &model,
-            inertia,
-            op.omega_rad_s(),
-            stall - rest_kinetic(&model),
-        )
-    });
+    let spin_up = operating
+        .as_ref()
+        .and_then(|op| spin_up_times(&model, inertia, op.omega_rad_s(), net_off_rest));
     let power = operating.as_ref().map(|op| PowerBalance {
         shaft_w: op.point.drive_n_m * op.omega_rad_s(),
         hydraulic_w: op.point.state.inlet_pressure_pa * op.point.state.total_flow_m3_s,
@@ -512,11 +588,6 @@ pub fn solve(design: &Design) -> SpinReport {
     }
 }
 
-/// Resisting torque just after breakaway (kinetic friction at ω = 0), N·m.
-fn rest_kinetic(model: &SpinModel) -> f64 {
-    model.point(0.0).resist.total_n_m()
-}
-
 fn note_state(state: &SupplyState, model: &SpinModel, warnings: &mut Vec<Warning>) {
     for (arm, n) in state.nozzles.iter().enumerate() {
         if !n.flowing {
@@ -538,7 +609,7 @@ fn note_state(state: &SupplyState, model: &SpinModel, warnings: &mut Vec<Warning
 
 /// RK4 on I dω/dt = net(ω) from rest; times to 90 % and 99 % of `omega_op`.
 ///
-/// The step is an eighth of the smaller of two time scales: the settling
+/// The step is a fraction (1/[`SPIN_UP_STEPS_PER_TIME_SCALE`]) of the smaller of two time scales: the settling
 /// constant I/|d net/dω| at the operating point and the rise time I·ω_op/net(0).
 /// Crossing times are read off the cubic Hermite interpolant of each step.
 pub fn spin_up_times(
@@ -546,6 +617,17 @@ pub fn spin_up_times(
     inertia: f64,
     omega_op: f64,
     net_at_rest: f64,
+) -> Option<SpinUp> {
+    spin_up_with_step_scale(model, inertia, omega_op, net_at_rest, 1.0)
+}
+
+/// [`spin_up_times`] with the step divided by `refine`.
+fn spin_up_with_step_scale(
+    model: &SpinModel,
+    inertia: f64,
+    omega_op: f64,
+    net_at_rest: f64,
+    refine: f64,
 ) -> Option<SpinUp> {
     if inertia <= 0.0 || omega_op <= 0.0 {
         return None;
@@ -562,7 +644,7 @@ pub fn spin_up_times(
     } else {
         settle
     };
-    let dt = settle.min(rise) / 8.0;
+    let dt = settle.min(rise) / (SPIN_UP_STEPS_PER_TIME_SCALE * refine);
     if !dt.is_finite() || dt <= 0.0 {
         return None;
     }
@@ -662,5 +744,53 @@ mod tests {
             r.runaway_rad_s.map(rpm), r.spin_up, r.inertia_kg_m2, r.warnings
         );
         assert!(p.net_n_m().abs() <= 1e-9 * p.drive_n_m);
+    }
+}
+
+#[cfg(test)]
+mod spin_up_tests {
+    use super::*;
+    use crate::physics::design::Supply;
+    use crate::physics::fixtures::{symmetric_rotor, three_arm_rotor};
+
+    #[test]
+    fn linear_net_torque_spins_up_exponentially() {
+        // Fixed flow, linear brake: net(ω) = T_s(1 − ω/ω_op) exactly, so
+        // ω(t) = ω_op(1 − e^(−t/τ)) with τ = I/(ρQR² + k): t90 = τ ln 10, t99 = τ ln 100.
+        let mut d = symmetric_rotor(2, 0.2, 3e-3, 0.2, 0.1, Supply::Flow { total_m3_s: 4e-4 });
+        for arm in &mut d.rotor.arms {
+            arm.tube.length_m = Some(0.0);
+        }
+        d.friction.brake.viscous = 0.01;
+        let r = solve(&d);
+        let rho = SpinModel::new(&d).fluids.water.density_kg_m3;
+        let tau = r.inertia_kg_m2 / (rho * 4e-4 * 0.04 + 0.01);
+        let s = r.spin_up.expect("spins up");
+        assert!(
+            (s.t90_s / (tau * 10f64.ln()) - 1.0).abs() < 1e-4,
+            "t90 {} vs {}",
+            s.t90_s,
+            tau * 10f64.ln()
+        );
+        assert!(
+            (s.t99_s / (tau * 100f64.ln()) - 1.0).abs() < 1e-4,
+            "t99 {}",
+            s.t99_s
+        );
+    }
+
+    #[test]
+    fn spin_up_step_is_converged() {
+        let d = three_arm_rotor();
+        let model = SpinModel::new(&d);
+        let r = solve(&d);
+        let op = r.operating.as_ref().expect("running").omega_rad_s();
+        let fine_net = model.point(0.0).net_n_m();
+        let coarse = r.spin_up.expect("spins up");
+        // Halving the step four times changes the times by well under 0.1 %.
+        let fine =
+            spin_up_with_step_scale(&model, r.inertia_kg_m2, op, fine_net, 16.0).expect("spins up");
+        assert!((coarse.t99_s / fine.t99_s - 1.0).abs() < 1e-3);
+        assert!((coarse.t90_s / fine.t90_s - 1.0).abs() < 1e-3);
     }
 }

@@ -115,9 +115,9 @@ fn nozzle_coeffs(arm: &Arm, omega: f64, water: &WaterProps) -> NozzleCoeffs {
 
 /// Safeguarded Newton on an increasing function `f` with `f(lo) < 0 < f(hi)`.
 ///
-/// `f` returns (value, slope); the slope may be approximate. Stops when the
-/// step is below `x_tol` or |f| below `f_tol`. Falls back to bisection when a
-/// Newton step would leave the bracket.
+/// `f` returns (value, slope). Stops when |f| is below `f_tol` or the step is
+/// below `x_tol`, and returns the last point with its value and slope. Falls
+/// back to bisection when a Newton step would leave the bracket.
 fn bracketed_newton(
     mut f: impl FnMut(f64) -> (f64, f64),
     mut lo: f64,
@@ -125,12 +125,12 @@ fn bracketed_newton(
     start: f64,
     x_tol: f64,
     f_tol: f64,
-) -> f64 {
+) -> (f64, f64, f64) {
     let mut x = start.clamp(lo, hi);
+    let (mut fx, mut dfx) = f(x);
     for _ in 0..100 {
-        let (fx, dfx) = f(x);
         if fx.abs() <= f_tol {
-            return x;
+            break;
         }
         if fx < 0.0 {
             lo = x;
@@ -143,12 +143,14 @@ fn bracketed_newton(
         } else {
             0.5 * (lo + hi)
         };
-        if (next - x).abs() <= x_tol || hi - lo <= x_tol {
-            return next;
-        }
+        let small = (next - x).abs() <= x_tol || hi - lo <= x_tol;
         x = next;
+        (fx, dfx) = f(x);
+        if small {
+            break;
+        }
     }
-    x
+    (x, fx, dfx)
 }
 
 /// Flow through one nozzle for a given hub gauge pressure and speed.
@@ -185,13 +187,10 @@ fn solve_nozzle(
         };
     }
     let q_max = (available / c.a).sqrt();
-    // Residual and slope of a·Q² + Δp_arm(Q) − available. The slope holds the
-    // friction factor fixed over the step (2Δp/Q); exact for the quadratic parts.
+    // Residual and exact slope of a·Q² + Δp_arm(Q) − available.
     let residual = |q: f64| {
-        let arm = c.tube.loss_pa(q, rho, mu);
-        let value = c.a * q * q + arm - available;
-        let slope = 2.0 * c.a * q + if q > 0.0 { 2.0 * arm / q } else { 0.0 };
-        (value, slope)
+        let (arm, arm_slope) = c.tube.loss_with_slope(q, rho, mu);
+        (c.a * q * q + arm - available, 2.0 * c.a * q + arm_slope)
     };
     let start = match guess {
         Some(g) if g > 0.0 && g < q_max => g,
@@ -200,21 +199,20 @@ fn solve_nozzle(
             (available / (c.a + k)).sqrt()
         }
     };
-    let q = bracketed_newton(
+    let (q, value, slope) = bracketed_newton(
         residual,
         0.0,
         q_max,
         start,
-        1e-14 * q_max,
-        1e-13 * available,
+        1e-15 * q_max,
+        1e-14 * available,
     );
-    let arm_loss = c.tube.loss_pa(q, rho, mu);
-    let dp_nozzle = (available - arm_loss).max(0.0);
-    let slope = residual(q).1;
+    let arm_loss = value + available - c.a * q * q;
+    let dp_nozzle = (c.a * q * q).min(available);
     NozzleFlow {
         flow_m3_s: q,
         nozzle_pressure_pa: dp_nozzle,
-        arm_loss_pa: arm_loss,
+        arm_loss_pa: arm_loss.max(0.0),
         centrifugal_rise_pa: c.rise_pa,
         jet_speed_relative_m_s: c.cv * (2.0 * dp_nozzle / rho).sqrt(),
         flowing: true,
@@ -232,17 +230,43 @@ fn line_duct(line: &Line) -> Duct {
     }
 }
 
-/// Swivel loss K·½ρ(Q/A_inlet)², Pa.
-fn swivel_loss(design: &Design, q: f64, rho: f64) -> f64 {
-    let area = PI * design.rotor.swivel.inlet_bore_m.powi(2) / 4.0;
-    let v = q / area;
-    design.rotor.swivel.k * 0.5 * rho * v * v
+/// Every nozzle of a design at one speed, solved in place for a trial hub pressure.
+struct NozzleSet<'a> {
+    coeffs: Vec<NozzleCoeffs>,
+    flows: Vec<NozzleFlow>,
+    water: &'a WaterProps,
+}
+
+impl NozzleSet<'_> {
+    /// Solve every nozzle at hub pressure `p_hub`; returns (ΣQ, dΣQ/dp).
+    /// The previous flows are the starting guesses.
+    fn at(&mut self, p_hub: f64) -> (f64, f64) {
+        let (mut total, mut slope) = (0.0, 0.0);
+        for (c, flow) in self.coeffs.iter().zip(self.flows.iter_mut()) {
+            *flow = solve_nozzle(c, p_hub, self.water, Some(flow.flow_m3_s));
+            total += flow.flow_m3_s;
+            slope += flow.dflow_dpressure;
+        }
+        (total, slope)
+    }
+
+    /// The solved nozzles, with the centrifugal rise filled in for idle ones.
+    fn finish(&mut self) -> Vec<NozzleFlow> {
+        std::mem::take(&mut self.flows)
+            .into_iter()
+            .zip(&self.coeffs)
+            .map(|(mut f, c)| {
+                f.centrifugal_rise_pa = c.rise_pa;
+                f
+            })
+            .collect()
+    }
 }
 
 /// Solve the water path of `design` at speed `omega_rad_s`.
 pub fn supply_state(design: &Design, fluids: &Fluids, omega_rad_s: f64) -> SupplyState {
     let water = &fluids.water;
-    let rho = water.density_kg_m3;
+    let (rho, mu) = (water.density_kg_m3, water.viscosity_pa_s);
     let coeffs: Vec<NozzleCoeffs> = design
         .rotor
         .arms
@@ -254,20 +278,22 @@ pub fn supply_state(design: &Design, fluids: &Fluids, omega_rad_s: f64) -> Suppl
         .iter()
         .map(|c| -c.head_gain_pa)
         .fold(f64::INFINITY, f64::min);
-    let all_nozzles = |p_hub: f64, guesses: &mut Vec<f64>| -> (Vec<NozzleFlow>, f64, f64) {
-        let flows: Vec<NozzleFlow> = coeffs
-            .iter()
-            .zip(guesses.iter())
-            .map(|(c, &g)| solve_nozzle(c, p_hub, water, Some(g)))
-            .collect();
-        for (g, f) in guesses.iter_mut().zip(&flows) {
-            *g = f.flow_m3_s;
-        }
-        let total = flows.iter().map(|f| f.flow_m3_s).sum();
-        let slope = flows.iter().map(|f| f.dflow_dpressure).sum();
-        (flows, total, slope)
+    let idle = NozzleFlow {
+        flow_m3_s: 0.0,
+        nozzle_pressure_pa: 0.0,
+        arm_loss_pa: 0.0,
+        centrifugal_rise_pa: 0.0,
+        jet_speed_relative_m_s: 0.0,
+        flowing: false,
+        dflow_dpressure: 0.0,
     };
-    let mut guesses = vec![0.0; coeffs.len()];
+    let mut set = NozzleSet {
+        flows: vec![idle; coeffs.len()],
+        coeffs,
+        water,
+    };
+    let swivel_area = PI * design.rotor.swivel.inlet_bore_m.powi(2) / 4.0;
+    let swivel_k = design.rotor.swivel.k * 0.5 * rho / (swivel_area * swivel_area);
 
     let (upstream_pa, line) = match design.supply {
         Supply::Pressure { inlet_pa } => (inlet_pa, None),
@@ -276,83 +302,85 @@ pub fn supply_state(design: &Design, fluids: &Fluids, omega_rad_s: f64) -> Suppl
             Some(line_duct(&line)),
         ),
         Supply::Flow { total_m3_s } => {
-            return flow_supply(design, water, omega_rad_s, total_m3_s, p_dead, all_nozzles);
+            return flow_supply(&mut set, omega_rad_s, total_m3_s, p_dead, swivel_k);
         }
     };
-    let upstream_loss = |q: f64| {
-        let hose = line.map_or(0.0, |d| d.loss_pa(q, rho, water.viscosity_pa_s));
-        (hose, swivel_loss(design, q, rho))
-    };
+    // Hose loss, Pa, and its slope in Q.
+    let hose_loss = |q: f64| line.map_or((0.0, 0.0), |d| d.loss_with_slope(q, rho, mu));
 
     let p_hub = if upstream_pa <= p_dead {
+        set.at(upstream_pa);
         upstream_pa
     } else {
         // H(p) = p − upstream + loss(Q(p)), increasing in p; H(p_dead) < 0 ≤ H(upstream).
-        let residual = |p: f64, guesses: &mut Vec<f64>| {
-            let (_, q, dq) = all_nozzles(p, guesses);
-            let (hose, swivel) = upstream_loss(q);
-            let loss = hose + swivel;
-            let dloss = if q > 0.0 { 2.0 * loss / q } else { 0.0 };
-            (p - upstream_pa + loss, 1.0 + dloss * dq)
-        };
         let span = upstream_pa - p_dead;
-        bracketed_newton(
-            |p| residual(p, &mut guesses),
+        let (p, _, _) = bracketed_newton(
+            |p| {
+                let (q, dq) = set.at(p);
+                let (hose, dhose) = hose_loss(q);
+                let loss = hose + swivel_k * q * q;
+                let dloss = dhose + 2.0 * swivel_k * q;
+                (p - upstream_pa + loss, 1.0 + dloss * dq)
+            },
             p_dead,
             upstream_pa,
             upstream_pa,
-            1e-13 * span.max(1.0),
-            1e-12 * upstream_pa.abs().max(span),
-        )
+            1e-14 * span,
+            1e-13 * span,
+        );
+        p
     };
-    let (nozzles, total, _) = all_nozzles(p_hub, &mut guesses);
-    let (hose, swivel) = upstream_loss(total);
+    let total: f64 = set.flows.iter().map(|f| f.flow_m3_s).sum();
+    let hose = hose_loss(total).0;
     SupplyState {
         omega_rad_s,
         inlet_pressure_pa: upstream_pa - hose,
         hub_pressure_pa: p_hub,
         total_flow_m3_s: total,
         line_loss_pa: hose,
-        swivel_loss_pa: swivel,
-        nozzles,
+        swivel_loss_pa: swivel_k * total * total,
+        nozzles: set.finish(),
     }
 }
 
 /// Fixed total flow: find the hub pressure at which the nozzles pass it.
 fn flow_supply(
-    design: &Design,
-    water: &WaterProps,
+    set: &mut NozzleSet<'_>,
     omega_rad_s: f64,
     total_m3_s: f64,
     p_dead: f64,
-    mut all_nozzles: impl FnMut(f64, &mut Vec<f64>) -> (Vec<NozzleFlow>, f64, f64),
+    swivel_k: f64,
 ) -> SupplyState {
-    let rho = water.density_kg_m3;
-    let mut guesses = vec![0.0; design.rotor.arms.len()];
-    // Expand upward from the dead pressure until the nozzles pass the flow.
-    let mut step = 1000.0_f64.max(p_dead.abs());
+    // Start above the dead pressure by the head the flow needs through all
+    // nozzles at once, and double until the nozzles pass the flow.
+    let cd_area: f64 = set
+        .coeffs
+        .iter()
+        .map(|c| (0.5 * set.water.density_kg_m3 / c.a).sqrt())
+        .sum();
+    let mut step = (0.5 * set.water.density_kg_m3 * (total_m3_s / cd_area).powi(2)).max(1.0);
     let mut hi = p_dead + step;
     for _ in 0..200 {
-        if all_nozzles(hi, &mut guesses).1 >= total_m3_s {
+        if set.at(hi).0 >= total_m3_s {
             break;
         }
         step *= 2.0;
         hi = p_dead + step;
     }
     let span = hi - p_dead;
-    let p_hub = bracketed_newton(
+    let (p_hub, _, _) = bracketed_newton(
         |p| {
-            let (_, q, dq) = all_nozzles(p, &mut guesses);
+            let (q, dq) = set.at(p);
             (q - total_m3_s, dq)
         },
         p_dead,
         hi,
         hi,
-        1e-13 * span,
-        1e-13 * total_m3_s,
+        1e-14 * span,
+        1e-14 * total_m3_s,
     );
-    let (nozzles, total, _) = all_nozzles(p_hub, &mut guesses);
-    let swivel = swivel_loss(design, total, rho);
+    let total: f64 = set.flows.iter().map(|f| f.flow_m3_s).sum();
+    let swivel = swivel_k * total * total;
     SupplyState {
         omega_rad_s,
         inlet_pressure_pa: p_hub + swivel,
@@ -360,6 +388,6 @@ fn flow_supply(
         total_flow_m3_s: total,
         line_loss_pa: 0.0,
         swivel_loss_pa: swivel,
-        nozzles,
+        nozzles: set.finish(),
     }
 }

@@ -44,17 +44,30 @@ pub fn colebrook(re: f64, relative_roughness: f64) -> f64 {
 ///
 /// Returns 0 for Re ≤ 0 (no flow, no friction).
 pub fn darcy_friction_factor(re: f64, relative_roughness: f64) -> f64 {
+    friction_factor_with_slope(re, relative_roughness).0
+}
+
+/// Darcy friction factor and its derivative with respect to Re.
+///
+/// The Colebrook derivative comes from implicit differentiation of
+/// g(x, Re) = x + 2 log₁₀(ε/(3.7D) + 2.51 x/Re) = 0 with x = 1/√f.
+pub fn friction_factor_with_slope(re: f64, relative_roughness: f64) -> (f64, f64) {
     if re <= 0.0 {
-        0.0
+        (0.0, 0.0)
     } else if re < RE_LAMINAR {
-        64.0 / re
+        (64.0 / re, -64.0 / (re * re))
     } else if re > RE_TURBULENT {
-        colebrook(re, relative_roughness)
+        let f = colebrook(re, relative_roughness);
+        let x = 1.0 / f.sqrt();
+        let (a, b) = (relative_roughness / 3.7, 2.51 / re);
+        let inner = (a + b * x) * std::f64::consts::LN_10;
+        let dx_dre = (2.0 * x * b / (re * inner)) / (1.0 + 2.0 * b / inner);
+        (f, -2.0 * f * dx_dre / x)
     } else {
         let lam = 64.0 / RE_LAMINAR;
         let turb = colebrook(RE_TURBULENT, relative_roughness);
-        let s = (re - RE_LAMINAR) / (RE_TURBULENT - RE_LAMINAR);
-        lam + s * (turb - lam)
+        let slope = (turb - lam) / (RE_TURBULENT - RE_LAMINAR);
+        (lam + (re - RE_LAMINAR) * slope, slope)
     }
 }
 
@@ -81,13 +94,25 @@ impl Duct {
     ///
     /// `density` in kg/m³, `viscosity` in Pa·s.
     pub fn loss_pa(&self, q_m3_s: f64, density: f64, viscosity: f64) -> f64 {
+        self.loss_with_slope(q_m3_s, density, viscosity).0
+    }
+
+    /// Pressure loss, Pa, and its derivative with respect to flow, Pa·s/m³.
+    pub fn loss_with_slope(&self, q_m3_s: f64, density: f64, viscosity: f64) -> (f64, f64) {
         if q_m3_s <= 0.0 {
-            return 0.0;
+            return (0.0, 0.0);
         }
-        let v = q_m3_s / self.area_m2();
-        let re = density * v * self.bore_m / viscosity;
-        let f = darcy_friction_factor(re, self.roughness_m / self.bore_m);
-        (f * self.length_m / self.bore_m + self.minor_k) * 0.5 * density * v * v
+        let area = self.area_m2();
+        let v = q_m3_s / area;
+        let re_per_q = density * self.bore_m / (viscosity * area);
+        let (f, df_dre) =
+            friction_factor_with_slope(re_per_q * q_m3_s, self.roughness_m / self.bore_m);
+        let l_over_d = self.length_m / self.bore_m;
+        let head = 0.5 * density * v * v;
+        let loss = (f * l_over_d + self.minor_k) * head;
+        let slope = df_dre * re_per_q * l_over_d * head
+            + (f * l_over_d + self.minor_k) * density * v / area;
+        (loss, slope)
     }
 }
 
@@ -102,6 +127,27 @@ mod tests {
             let lhs = 1.0 / f.sqrt();
             let rhs = -2.0 * (rr / 3.7 + 2.51 / (re * f.sqrt())).log10();
             assert!((lhs - rhs).abs() < 1e-12 * lhs);
+        }
+    }
+
+    #[test]
+    fn loss_slope_matches_a_central_difference() {
+        let duct = Duct {
+            bore_m: 6e-3,
+            length_m: 0.3,
+            roughness_m: 1.5e-6,
+            minor_k: 0.7,
+        };
+        // Laminar, blend and turbulent flows in a 6 mm bore.
+        for &q in &[5e-6, 1.5e-5, 1e-4, 1e-3] {
+            let (_, slope) = duct.loss_with_slope(q, 998.0, 1e-3);
+            let h = 1e-6 * q;
+            let fd =
+                (duct.loss_pa(q + h, 998.0, 1e-3) - duct.loss_pa(q - h, 998.0, 1e-3)) / (2.0 * h);
+            assert!(
+                (slope - fd).abs() < 1e-5 * fd.abs(),
+                "q {q}: {slope} vs {fd}"
+            );
         }
     }
 
