@@ -25,15 +25,16 @@ use super::torque::{
 /// Tip speed that bounds the equilibrium search, m/s.
 pub const CAP_TIP_SPEED_M_S: f64 = 150.0;
 /// Points in the geometric scan for sign changes of net torque (a 20 % step).
-pub const SCAN_POINTS: usize = 77;
-/// Lowest scan speed as a fraction of ω_cap.
-const SCAN_FLOOR: f64 = 1e-6;
-/// Points and floor of the runaway scan (up to ten times the tip-speed cap).
-const RUNAWAY_POINTS: usize = 52;
-const RUNAWAY_FLOOR: f64 = 1e-4;
+pub const SCAN_POINTS: usize = 52;
+/// Lowest scan speed as a fraction of ω_cap (a root below it is still
+/// bracketed between rest and the first grid point).
+const SCAN_FLOOR: f64 = 1e-4;
+/// Points and floor of the runaway scan (up to ten times the tip-speed cap, a 25 % step).
+const RUNAWAY_POINTS: usize = 32;
+const RUNAWAY_FLOOR: f64 = 1e-3;
 
 /// RK4 steps per time scale of the spin-up (see [`spin_up_times`]).
-pub const SPIN_UP_STEPS_PER_TIME_SCALE: f64 = 6.0;
+pub const SPIN_UP_STEPS_PER_TIME_SCALE: f64 = 5.0;
 
 /// rad/s → rpm.
 pub fn rpm(omega_rad_s: f64) -> f64 {

@@ -250,6 +250,82 @@ impl NozzleSet<'_> {
         (total, slope)
     }
 
+    /// Newton's method on all unknowns at once (hub pressure and every
+    /// nozzle's flow), closed by `closing(p, ΣQ) = (r₀, ∂r₀/∂p, ∂r₀/∂ΣQ)`.
+    ///
+    /// The Jacobian is arrow-shaped, so each step costs one loss evaluation
+    /// per nozzle. Returns the hub pressure, or `None` when a nozzle stops
+    /// flowing on the way or the iteration does not settle, so that the
+    /// caller can fall back to the nested, bracketed solve.
+    fn joint_newton(
+        &mut self,
+        p_start: f64,
+        p_scale: f64,
+        closing: impl Fn(f64, f64) -> (f64, f64, f64),
+    ) -> Option<f64> {
+        let (rho, mu) = (self.water.density_kg_m3, self.water.viscosity_pa_s);
+        let mut p = p_start;
+        for (c, flow) in self.coeffs.iter().zip(self.flows.iter_mut()) {
+            let available = p + c.head_gain_pa;
+            if available <= 0.0 {
+                return None;
+            }
+            flow.flow_m3_s = (available / c.a).sqrt();
+        }
+        let n = self.coeffs.len();
+        let mut residual = vec![0.0; n];
+        let mut slope = vec![0.0; n];
+        for _ in 0..40 {
+            let mut total = 0.0;
+            for (k, (c, flow)) in self.coeffs.iter().zip(&self.flows).enumerate() {
+                let q = flow.flow_m3_s;
+                let (arm, arm_slope) = c.tube.loss_with_slope(q, rho, mu);
+                residual[k] = c.a * q * q + arm - (p + c.head_gain_pa);
+                slope[k] = 2.0 * c.a * q + arm_slope;
+                total += q;
+            }
+            let (r0, dr0_dp, dr0_dq) = closing(p, total);
+            let s1: f64 = slope.iter().map(|d| 1.0 / d).sum();
+            let s2: f64 = residual.iter().zip(&slope).map(|(r, d)| r / d).sum();
+            let dp = (-r0 + dr0_dq * s2) / (dr0_dp + dr0_dq * s1);
+            if !dp.is_finite() {
+                return None;
+            }
+            p += dp;
+            let mut settled = dp.abs() <= 1e-10 * p_scale;
+            for (k, flow) in self.flows.iter_mut().enumerate() {
+                let dq = (dp - residual[k]) / slope[k];
+                flow.flow_m3_s += dq;
+                if !(flow.flow_m3_s > 0.0) {
+                    return None;
+                }
+                settled &= dq.abs() <= 1e-10 * flow.flow_m3_s;
+            }
+            if settled {
+                for (c, flow) in self.coeffs.iter().zip(self.flows.iter_mut()) {
+                    let q = flow.flow_m3_s;
+                    let available = p + c.head_gain_pa;
+                    let (arm, arm_slope) = c.tube.loss_with_slope(q, rho, mu);
+                    if available <= 0.0 {
+                        return None;
+                    }
+                    let dp_nozzle = (c.a * q * q).min(available);
+                    *flow = NozzleFlow {
+                        flow_m3_s: q,
+                        nozzle_pressure_pa: dp_nozzle,
+                        arm_loss_pa: arm,
+                        centrifugal_rise_pa: c.rise_pa,
+                        jet_speed_relative_m_s: c.cv * (2.0 * dp_nozzle / rho).sqrt(),
+                        flowing: true,
+                        dflow_dpressure: 1.0 / (2.0 * c.a * q + arm_slope),
+                    };
+                }
+                return Some(p);
+            }
+        }
+        None
+    }
+
     /// The solved nozzles, with the centrifugal rise filled in for idle ones.
     fn finish(&mut self) -> Vec<NozzleFlow> {
         std::mem::take(&mut self.flows)
@@ -308,12 +384,25 @@ pub fn supply_state(design: &Design, fluids: &Fluids, omega_rad_s: f64) -> Suppl
     // Hose loss, Pa, and its slope in Q.
     let hose_loss = |q: f64| line.map_or((0.0, 0.0), |d| d.loss_with_slope(q, rho, mu));
 
-    let p_hub = if upstream_pa <= p_dead {
+    let span = upstream_pa - p_dead;
+    let closing = |p: f64, q: f64| {
+        let (hose, dhose) = hose_loss(q);
+        (
+            p - upstream_pa + hose + swivel_k * q * q,
+            1.0,
+            dhose + 2.0 * swivel_k * q,
+        )
+    };
+    let fast = (upstream_pa > p_dead)
+        .then(|| set.joint_newton(upstream_pa, span, closing))
+        .flatten();
+    let p_hub = if let Some(p) = fast {
+        p
+    } else if upstream_pa <= p_dead {
         set.at(upstream_pa);
         upstream_pa
     } else {
         // H(p) = p − upstream + loss(Q(p)), increasing in p; H(p_dead) < 0 ≤ H(upstream).
-        let span = upstream_pa - p_dead;
         let (p, _, _) = bracketed_newton(
             |p| {
                 let (q, dq) = set.at(p);
@@ -359,6 +448,10 @@ fn flow_supply(
         .map(|c| (0.5 * set.water.density_kg_m3 / c.a).sqrt())
         .sum();
     let mut step = (0.5 * set.water.density_kg_m3 * (total_m3_s / cd_area).powi(2)).max(1.0);
+    let fast = set.joint_newton(p_dead + step, step, |_, q| (q - total_m3_s, 0.0, 1.0));
+    if let Some(p_hub) = fast {
+        return flow_state(set, omega_rad_s, p_hub, swivel_k);
+    }
     let mut hi = p_dead + step;
     for _ in 0..200 {
         if set.at(hi).0 >= total_m3_s {
@@ -379,6 +472,10 @@ fn flow_supply(
         1e-14 * span,
         1e-14 * total_m3_s,
     );
+    flow_state(set, omega_rad_s, p_hub, swivel_k)
+}
+
+fn flow_state(set: &mut NozzleSet<'_>, omega_rad_s: f64, p_hub: f64, swivel_k: f64) -> SupplyState {
     let total: f64 = set.flows.iter().map(|f| f.flow_m3_s).sum();
     let swivel = swivel_k * total * total;
     SupplyState {

@@ -33,7 +33,9 @@ pub fn colebrook(re: f64, relative_roughness: f64) -> f64 {
         let dg = 1.0 + 2.0 * b / (inner * ln10);
         let step = g / dg;
         x -= step;
-        if step.abs() < 1e-14 * x.abs() {
+        // Newton converges quadratically: once a step is below 1e-8 of x,
+        // the remaining error is below 1e-16 of x.
+        if step.abs() < 1e-8 * x.abs() {
             break;
         }
     }
