@@ -1,0 +1,2 @@
+mod reference_fluid;
+mod reference_pipe;
