@@ -296,7 +296,7 @@ impl NozzleSet<'_> {
             for (k, flow) in self.flows.iter_mut().enumerate() {
                 let dq = (dp - residual[k]) / slope[k];
                 flow.flow_m3_s += dq;
-                if !(flow.flow_m3_s > 0.0) {
+                if flow.flow_m3_s.is_nan() || flow.flow_m3_s <= 0.0 {
                     return None;
                 }
                 settled &= dq.abs() <= 1e-10 * flow.flow_m3_s;
