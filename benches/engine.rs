@@ -1,1 +1,3 @@
-fn main(){}
+//! Benchmarks of the engine (filled in with the solver).
+
+fn main() {}

@@ -284,7 +284,12 @@ static UNITS: &[UnitDef] = &[
         US_GALLON_M3 / 60.0,
     ),
     // Angle
-    unit(D::Angle, "°", &["deg", "°", "degree", "degrees"], DEGREE_RAD),
+    unit(
+        D::Angle,
+        "°",
+        &["deg", "°", "degree", "degrees"],
+        DEGREE_RAD,
+    ),
     unit(D::Angle, "rad", &["rad"], 1.0),
     // Temperature (SI here is °C, as in the design)
     unit(D::Temperature, "°C", &["C", "°C", "degC"], 1.0),
@@ -305,8 +310,18 @@ static UNITS: &[UnitDef] = &[
     // Torque
     unit(D::Torque, "N·m", &["Nm", "N_m"], 1.0),
     unit(D::Torque, "N·mm", &["Nmm"], 1.0e-3),
-    unit(D::Torque, "lbf·in", &["lbfin", "inlbf", "inlb", "lbf_in"], LBF_IN_N_M),
-    unit(D::Torque, "lbf·ft", &["lbfft", "ftlbf", "ftlb", "lbf_ft"], LBF_FT_N_M),
+    unit(
+        D::Torque,
+        "lbf·in",
+        &["lbfin", "inlbf", "inlb", "lbf_in"],
+        LBF_IN_N_M,
+    ),
+    unit(
+        D::Torque,
+        "lbf·ft",
+        &["lbfft", "ftlbf", "ftlb", "lbf_ft"],
+        LBF_FT_N_M,
+    ),
     // Mass
     unit(D::Mass, "g", &["g"], 1.0e-3),
     unit(D::Mass, "kg", &["kg"], 1.0),
@@ -340,10 +355,20 @@ static UNITS: &[UnitDef] = &[
     unit(D::Volume, "m³", &["m3"], 1.0),
     unit(D::Volume, "gal", &["gal"], US_GALLON_M3),
     // Rotation speed
-    unit(D::AngularSpeed, "rpm", &["rpm", "rev/min", "r/min"], RPM_RAD_S),
+    unit(
+        D::AngularSpeed,
+        "rpm",
+        &["rpm", "rev/min", "r/min"],
+        RPM_RAD_S,
+    ),
     unit(D::AngularSpeed, "rad/s", &["rad/s"], 1.0),
     // Application rate
-    unit(D::ApplicationRate, "mm/h", &["mm/h", "mm/hr"], 1.0e-3 / 3600.0),
+    unit(
+        D::ApplicationRate,
+        "mm/h",
+        &["mm/h", "mm/hr"],
+        1.0e-3 / 3600.0,
+    ),
     unit(
         D::ApplicationRate,
         "in/h",
@@ -411,7 +436,9 @@ pub enum UnitError {
         example: &'static str,
     },
     /// The text does not start with a number.
-    #[error("`{input}` does not start with a number: expected a {dim} with its unit, e.g. {example}")]
+    #[error(
+        "`{input}` does not start with a number: expected a {dim} with its unit, e.g. {example}"
+    )]
     NotANumber {
         /// The text as typed.
         input: String,
@@ -656,7 +683,7 @@ mod tests {
         assert!(close(LB_FT3_KG_M3, 1.601_846e1, 1e-6)); // lb/ft³ → kg/m³
         assert!(close(OUNCE_KG, 2.834_952e-2, 1e-6)); // oz (avoirdupois) → kg
         assert!(close(POUND_FORCE_N, 4.448_222, 1e-6)); // lbf → N
-        // Exact ones (SP 811 marks them exact).
+                                                        // Exact ones (SP 811 marks them exact).
         assert_eq!(MPH_M_S, 0.447_04);
         assert!(close(US_GALLON_M3, 3.785_411_784e-3, 1e-15));
         assert!(close(POUND_FORCE_N, 4.448_221_615_260_5, 1e-15));
@@ -728,7 +755,10 @@ mod tests {
         let e = parse_quantity(D::Pressure, "2.8").unwrap_err();
         assert!(matches!(e, UnitError::MissingUnit { .. }));
         let msg = e.to_string();
-        assert!(msg.contains("kPa") && msg.contains("psi") && msg.contains("bar"), "{msg}");
+        assert!(
+            msg.contains("kPa") && msg.contains("psi") && msg.contains("bar"),
+            "{msg}"
+        );
 
         let e = parse_quantity(D::Pressure, "2.8 lpm").unwrap_err();
         let msg = e.to_string();
