@@ -2,6 +2,11 @@
 //! rotating-arm sprinklers.
 //!
 //! - [`physics`]: the pure model (SI in, SI out).
+//! - [`units`]: quantities typed with units, and values shown in metric or US units.
+//! - [`scenario`]: the scenario file (RON with unit tags), its validation into a
+//!   [`physics::design::Design`], writing a design back, and safe saving.
 #![warn(missing_docs)]
 
 pub mod physics;
+pub mod scenario;
+pub mod units;

@@ -1,0 +1,851 @@
+//! Units at the edges: reading quantities typed with a unit, and showing SI
+//! values in the unit a practitioner expects.
+//!
+//! The physics core works in SI only (m, s, kg, Pa, rad; temperatures in °C,
+//! as [`crate::physics::design::Design`] keeps them). Everything a person
+//! types — a command-line argument such as `2.8bar`, a value entered in the
+//! terminal interface — goes through [`parse_quantity`] once, and everything
+//! shown goes through [`format_quantity`] or [`to_display`] once.
+//!
+//! Conversion factors are the exact definitions behind NIST SP 811 (2008),
+//! Appendix B: the international inch (0.0254 m) and foot (0.3048 m), the
+//! avoirdupois pound (0.453 592 37 kg), the pound-force (pound × standard
+//! gravity 9.806 65 m/s²), the US liquid gallon (231 in³), the bar (10⁵ Pa)
+//! and the degree Fahrenheit (t/°C = (t/°F − 32)/1.8). Derived factors (psi,
+//! lbf·in, lb·in², lb/ft³) are computed from those, so they carry no rounding
+//! beyond the last bit of a double.
+
+use std::f64::consts::PI;
+use std::fmt;
+
+use crate::physics::design::GRAVITY_M_S2;
+
+/// Exact conversion factors to SI (NIST SP 811, Appendix B definitions).
+pub mod factor {
+    use super::{GRAVITY_M_S2, PI};
+
+    /// One international inch in metres (exact).
+    pub const INCH_M: f64 = 0.0254;
+    /// One international foot in metres (exact).
+    pub const FOOT_M: f64 = 0.3048;
+    /// One statute mile in metres (exact).
+    pub const MILE_M: f64 = 1609.344;
+    /// One avoirdupois pound in kilograms (exact).
+    pub const POUND_KG: f64 = 0.453_592_37;
+    /// One avoirdupois ounce in kilograms (a sixteenth of a pound, exact).
+    pub const OUNCE_KG: f64 = POUND_KG / 16.0;
+    /// One pound-force in newtons: pound × standard gravity (exact, 4.448 221 615 260 5 N).
+    pub const POUND_FORCE_N: f64 = POUND_KG * GRAVITY_M_S2;
+    /// One pound-force per square inch in pascals (≈ 6 894.757 Pa).
+    pub const PSI_PA: f64 = POUND_FORCE_N / (INCH_M * INCH_M);
+    /// One bar in pascals (exact).
+    pub const BAR_PA: f64 = 1.0e5;
+    /// One litre in cubic metres (exact).
+    pub const LITRE_M3: f64 = 1.0e-3;
+    /// One US liquid gallon (231 in³) in cubic metres (exact, 3.785 411 784 × 10⁻³ m³).
+    pub const US_GALLON_M3: f64 = 231.0 * INCH_M * INCH_M * INCH_M;
+    /// One mile per hour in metres per second (exact, 0.447 04).
+    pub const MPH_M_S: f64 = MILE_M / 3600.0;
+    /// One pound-force inch in newton metres (≈ 0.112 984 8 N·m).
+    pub const LBF_IN_N_M: f64 = POUND_FORCE_N * INCH_M;
+    /// One pound-force foot in newton metres (≈ 1.355 818 N·m).
+    pub const LBF_FT_N_M: f64 = POUND_FORCE_N * FOOT_M;
+    /// One pound square inch (lb·in²) in kg·m² (≈ 2.926 397 × 10⁻⁴).
+    pub const LB_IN2_KG_M2: f64 = POUND_KG * INCH_M * INCH_M;
+    /// One pound per cubic foot in kg/m³ (≈ 16.018 46).
+    pub const LB_FT3_KG_M3: f64 = POUND_KG / (FOOT_M * FOOT_M * FOOT_M);
+    /// One degree of angle in radians.
+    pub const DEGREE_RAD: f64 = PI / 180.0;
+    /// One revolution per minute in radians per second.
+    pub const RPM_RAD_S: f64 = 2.0 * PI / 60.0;
+    /// Size of one degree Fahrenheit in kelvin (exact: 1/1.8).
+    pub const FAHRENHEIT_STEP_K: f64 = 1.0 / 1.8;
+}
+
+use factor::*;
+
+/// Which unit system values are shown in.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default)]
+pub enum UnitSystem {
+    /// SI-based units a practitioner uses: mm, m, kPa, L/min, °C, N·m.
+    #[default]
+    Metric,
+    /// US customary units: in, ft, psi, gpm, °F, lbf·in.
+    Us,
+}
+
+impl UnitSystem {
+    /// The other system (for a metric/US toggle).
+    pub fn toggled(self) -> Self {
+        match self {
+            UnitSystem::Metric => UnitSystem::Us,
+            UnitSystem::Us => UnitSystem::Metric,
+        }
+    }
+}
+
+impl fmt::Display for UnitSystem {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(match self {
+            UnitSystem::Metric => "metric",
+            UnitSystem::Us => "us",
+        })
+    }
+}
+
+/// The physical dimension of a quantity, which fixes its SI unit and the units
+/// accepted and shown for it.
+///
+/// Lengths come in two kinds because a practitioner reads them differently: a
+/// nozzle or arm radius in millimetres or inches ([`Dimension::SmallLength`]),
+/// a throw, hose or head spacing in metres or feet ([`Dimension::Length`]).
+/// Both accept every length unit when parsing.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum Dimension {
+    /// A long length, SI m; shown in m or ft (throw, spacing, hose length).
+    Length,
+    /// A short length, SI m; shown in mm or in (nozzle, bore, arm radius).
+    SmallLength,
+    /// Gauge pressure, SI Pa; shown in kPa or psi.
+    Pressure,
+    /// Volumetric flow, SI m³/s; shown in L/min or gpm.
+    Flow,
+    /// Plane angle, SI rad; shown in degrees.
+    Angle,
+    /// Temperature, kept in °C (as the design does); shown in °C or °F.
+    Temperature,
+    /// Torque, SI N·m; shown in N·m or lbf·in.
+    Torque,
+    /// Mass, SI kg; shown in g or oz.
+    Mass,
+    /// Area, SI m²; shown in mm² or in².
+    Area,
+    /// Speed, SI m/s; shown in m/s or ft/s.
+    Speed,
+    /// Mass moment of inertia, SI kg·m²; shown in kg·m² or lb·in².
+    Inertia,
+    /// Density, SI kg/m³; shown in kg/m³ or lb/ft³.
+    Density,
+    /// Time, SI s; shown in s.
+    Time,
+    /// Volume, SI m³; shown in L or gal (catch volumes).
+    Volume,
+    /// Rotation speed, SI rad/s; shown in rpm.
+    AngularSpeed,
+    /// Application (precipitation) rate, SI m/s; shown in mm/h or in/h.
+    ApplicationRate,
+}
+
+impl Dimension {
+    /// Every dimension, for iteration in tests and help texts.
+    pub const ALL: [Dimension; 16] = [
+        Dimension::Length,
+        Dimension::SmallLength,
+        Dimension::Pressure,
+        Dimension::Flow,
+        Dimension::Angle,
+        Dimension::Temperature,
+        Dimension::Torque,
+        Dimension::Mass,
+        Dimension::Area,
+        Dimension::Speed,
+        Dimension::Inertia,
+        Dimension::Density,
+        Dimension::Time,
+        Dimension::Volume,
+        Dimension::AngularSpeed,
+        Dimension::ApplicationRate,
+    ];
+
+    /// A plain-word name ("pressure", "flow") for messages.
+    pub fn name(self) -> &'static str {
+        match self {
+            Dimension::Length | Dimension::SmallLength => "length",
+            Dimension::Pressure => "pressure",
+            Dimension::Flow => "flow",
+            Dimension::Angle => "angle",
+            Dimension::Temperature => "temperature",
+            Dimension::Torque => "torque",
+            Dimension::Mass => "mass",
+            Dimension::Area => "area",
+            Dimension::Speed => "speed",
+            Dimension::Inertia => "moment of inertia",
+            Dimension::Density => "density",
+            Dimension::Time => "time",
+            Dimension::Volume => "volume",
+            Dimension::AngularSpeed => "rotation speed",
+            Dimension::ApplicationRate => "application rate",
+        }
+    }
+
+    /// A typical value with its unit, for help in messages (`2.8bar`).
+    pub fn example(self) -> &'static str {
+        match self {
+            Dimension::Length => "7.5m",
+            Dimension::SmallLength => "160mm",
+            Dimension::Pressure => "2.8bar",
+            Dimension::Flow => "12L/min",
+            Dimension::Angle => "22deg",
+            Dimension::Temperature => "18C",
+            Dimension::Torque => "0.02N·m",
+            Dimension::Mass => "180g",
+            Dimension::Area => "110mm2",
+            Dimension::Speed => "2m/s",
+            Dimension::Inertia => "0.0012kg·m2",
+            Dimension::Density => "8500kg/m3",
+            Dimension::Time => "14.2s",
+            Dimension::Volume => "5L",
+            Dimension::AngularSpeed => "30rpm",
+            Dimension::ApplicationRate => "12mm/h",
+        }
+    }
+
+    /// The units accepted for this dimension, as they are usually written.
+    pub fn accepted_units(self) -> Vec<&'static str> {
+        units_of(self).map(|u| u.aliases[0]).collect()
+    }
+
+    fn family(self) -> Dimension {
+        match self {
+            Dimension::SmallLength => Dimension::Length,
+            other => other,
+        }
+    }
+}
+
+impl fmt::Display for Dimension {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(self.name())
+    }
+}
+
+/// A unit: how to write it, how to read it, and how to reach SI.
+///
+/// `si = value · scale + offset`.
+struct UnitDef {
+    dim: Dimension,
+    /// Label shown after a number.
+    label: &'static str,
+    /// Spellings accepted when parsing, already in canonical form (see
+    /// [`canonical_unit`]); the first is the one listed in messages.
+    aliases: &'static [&'static str],
+    scale: f64,
+    offset: f64,
+}
+
+const fn unit(
+    dim: Dimension,
+    label: &'static str,
+    aliases: &'static [&'static str],
+    scale: f64,
+) -> UnitDef {
+    UnitDef {
+        dim,
+        label,
+        aliases,
+        scale,
+        offset: 0.0,
+    }
+}
+
+use Dimension as D;
+
+/// Every unit known to the parser; the first unit of each dimension in this
+/// table is not special, display units are chosen in [`display_unit`].
+static UNITS: &[UnitDef] = &[
+    // Length
+    unit(D::Length, "m", &["m"], 1.0),
+    unit(D::Length, "mm", &["mm"], 1.0e-3),
+    unit(D::Length, "cm", &["cm"], 1.0e-2),
+    unit(D::Length, "km", &["km"], 1.0e3),
+    unit(D::Length, "in", &["in", "inch", "inches", "\""], INCH_M),
+    unit(D::Length, "ft", &["ft", "foot", "feet", "'"], FOOT_M),
+    unit(D::Length, "yd", &["yd"], 3.0 * FOOT_M),
+    // Pressure
+    unit(D::Pressure, "kPa", &["kPa"], 1.0e3),
+    unit(D::Pressure, "bar", &["bar"], BAR_PA),
+    unit(D::Pressure, "psi", &["psi", "lbf/in2"], PSI_PA),
+    unit(D::Pressure, "MPa", &["MPa"], 1.0e6),
+    unit(D::Pressure, "Pa", &["Pa"], 1.0),
+    // Flow
+    unit(
+        D::Flow,
+        "L/min",
+        &["L/min", "l/min", "lpm", "Lpm", "L_min"],
+        LITRE_M3 / 60.0,
+    ),
+    unit(D::Flow, "L/s", &["L/s", "l/s", "L_s"], LITRE_M3),
+    unit(D::Flow, "m³/h", &["m3/h", "m3_h"], 1.0 / 3600.0),
+    unit(D::Flow, "m³/s", &["m3/s"], 1.0),
+    unit(
+        D::Flow,
+        "gpm",
+        &["gpm", "gal/min", "GPM"],
+        US_GALLON_M3 / 60.0,
+    ),
+    // Angle
+    unit(
+        D::Angle,
+        "°",
+        &["deg", "°", "degree", "degrees"],
+        DEGREE_RAD,
+    ),
+    unit(D::Angle, "rad", &["rad"], 1.0),
+    // Temperature (SI here is °C, as in the design)
+    unit(D::Temperature, "°C", &["C", "°C", "degC"], 1.0),
+    UnitDef {
+        dim: D::Temperature,
+        label: "°F",
+        aliases: &["F", "°F", "degF"],
+        scale: FAHRENHEIT_STEP_K,
+        offset: -32.0 * FAHRENHEIT_STEP_K,
+    },
+    UnitDef {
+        dim: D::Temperature,
+        label: "K",
+        aliases: &["K"],
+        scale: 1.0,
+        offset: -273.15,
+    },
+    // Torque
+    unit(D::Torque, "N·m", &["Nm", "N_m"], 1.0),
+    unit(D::Torque, "N·mm", &["Nmm"], 1.0e-3),
+    unit(
+        D::Torque,
+        "lbf·in",
+        &["lbfin", "inlbf", "inlb", "lbf_in"],
+        LBF_IN_N_M,
+    ),
+    unit(
+        D::Torque,
+        "lbf·ft",
+        &["lbfft", "ftlbf", "ftlb", "lbf_ft"],
+        LBF_FT_N_M,
+    ),
+    // Mass
+    unit(D::Mass, "g", &["g"], 1.0e-3),
+    unit(D::Mass, "kg", &["kg"], 1.0),
+    unit(D::Mass, "oz", &["oz"], OUNCE_KG),
+    unit(D::Mass, "lb", &["lb", "lbs"], POUND_KG),
+    // Area
+    unit(D::Area, "mm²", &["mm2"], 1.0e-6),
+    unit(D::Area, "cm²", &["cm2"], 1.0e-4),
+    unit(D::Area, "m²", &["m2"], 1.0),
+    unit(D::Area, "in²", &["in2", "sqin"], INCH_M * INCH_M),
+    // Speed
+    unit(D::Speed, "m/s", &["m/s", "m_s"], 1.0),
+    unit(D::Speed, "km/h", &["km/h", "kph", "km_h"], 1.0 / 3.6),
+    unit(D::Speed, "ft/s", &["ft/s", "fps", "ft_s"], FOOT_M),
+    unit(D::Speed, "mph", &["mph", "mi/h"], MPH_M_S),
+    // Inertia
+    unit(D::Inertia, "kg·m²", &["kgm2", "kg_m2"], 1.0),
+    unit(D::Inertia, "g·cm²", &["gcm2", "g_cm2"], 1.0e-7),
+    unit(D::Inertia, "lb·in²", &["lbin2", "lb_in2"], LB_IN2_KG_M2),
+    // Density
+    unit(D::Density, "kg/m³", &["kg/m3", "kg_m3"], 1.0),
+    unit(D::Density, "g/cm³", &["g/cm3", "g_cm3"], 1.0e3),
+    unit(D::Density, "lb/ft³", &["lb/ft3", "lb_ft3"], LB_FT3_KG_M3),
+    // Time
+    unit(D::Time, "s", &["s", "sec"], 1.0),
+    unit(D::Time, "min", &["min"], 60.0),
+    unit(D::Time, "h", &["h", "hr"], 3600.0),
+    // Volume
+    unit(D::Volume, "L", &["L", "l"], LITRE_M3),
+    unit(D::Volume, "mL", &["mL", "ml"], 1.0e-6),
+    unit(D::Volume, "m³", &["m3"], 1.0),
+    unit(D::Volume, "gal", &["gal"], US_GALLON_M3),
+    // Rotation speed
+    unit(
+        D::AngularSpeed,
+        "rpm",
+        &["rpm", "rev/min", "r/min"],
+        RPM_RAD_S,
+    ),
+    unit(D::AngularSpeed, "rad/s", &["rad/s"], 1.0),
+    // Application rate
+    unit(
+        D::ApplicationRate,
+        "mm/h",
+        &["mm/h", "mm/hr"],
+        1.0e-3 / 3600.0,
+    ),
+    unit(
+        D::ApplicationRate,
+        "in/h",
+        &["in/h", "in/hr"],
+        INCH_M / 3600.0,
+    ),
+];
+
+fn units_of(dim: Dimension) -> impl Iterator<Item = &'static UnitDef> {
+    let family = dim.family();
+    UNITS.iter().filter(move |u| u.dim == family)
+}
+
+/// The unit used for display of `dim` in `system`: the one a practitioner reads.
+fn display_unit(dim: Dimension, system: UnitSystem) -> &'static UnitDef {
+    let label = match (dim, system) {
+        (D::Length, UnitSystem::Metric) => "m",
+        (D::Length, UnitSystem::Us) => "ft",
+        (D::SmallLength, UnitSystem::Metric) => "mm",
+        (D::SmallLength, UnitSystem::Us) => "in",
+        (D::Pressure, UnitSystem::Metric) => "kPa",
+        (D::Pressure, UnitSystem::Us) => "psi",
+        (D::Flow, UnitSystem::Metric) => "L/min",
+        (D::Flow, UnitSystem::Us) => "gpm",
+        (D::Angle, _) => "°",
+        (D::Temperature, UnitSystem::Metric) => "°C",
+        (D::Temperature, UnitSystem::Us) => "°F",
+        (D::Torque, UnitSystem::Metric) => "N·m",
+        (D::Torque, UnitSystem::Us) => "lbf·in",
+        (D::Mass, UnitSystem::Metric) => "g",
+        (D::Mass, UnitSystem::Us) => "oz",
+        (D::Area, UnitSystem::Metric) => "mm²",
+        (D::Area, UnitSystem::Us) => "in²",
+        (D::Speed, UnitSystem::Metric) => "m/s",
+        (D::Speed, UnitSystem::Us) => "ft/s",
+        (D::Inertia, UnitSystem::Metric) => "kg·m²",
+        (D::Inertia, UnitSystem::Us) => "lb·in²",
+        (D::Density, UnitSystem::Metric) => "kg/m³",
+        (D::Density, UnitSystem::Us) => "lb/ft³",
+        (D::Time, _) => "s",
+        (D::Volume, UnitSystem::Metric) => "L",
+        (D::Volume, UnitSystem::Us) => "gal",
+        (D::AngularSpeed, _) => "rpm",
+        (D::ApplicationRate, UnitSystem::Metric) => "mm/h",
+        (D::ApplicationRate, UnitSystem::Us) => "in/h",
+    };
+    // Every label above is in the table; the fallback only guards against a
+    // future edit that breaks that, and shows SI rather than panicking.
+    units_of(dim)
+        .find(|u| u.label == label)
+        .unwrap_or(&SI_FALLBACK)
+}
+
+static SI_FALLBACK: UnitDef = unit(D::Length, "(SI)", &["SI"], 1.0);
+
+/// Why a typed quantity could not be read.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+pub enum UnitError {
+    /// Nothing was typed.
+    #[error("no value given: expected a {dim} with its unit, e.g. {example}")]
+    Empty {
+        /// What was expected.
+        dim: Dimension,
+        /// A typical value with its unit.
+        example: &'static str,
+    },
+    /// The text does not start with a number.
+    #[error(
+        "`{input}` does not start with a number: expected a {dim} with its unit, e.g. {example}"
+    )]
+    NotANumber {
+        /// The text as typed.
+        input: String,
+        /// What was expected.
+        dim: Dimension,
+        /// A typical value with its unit.
+        example: &'static str,
+    },
+    /// A number without a unit.
+    #[error("`{input}` has no unit: write the {dim} with one of {accepted} (e.g. {example})")]
+    MissingUnit {
+        /// The text as typed.
+        input: String,
+        /// What was expected.
+        dim: Dimension,
+        /// The accepted units, comma separated.
+        accepted: String,
+        /// A typical value with its unit.
+        example: &'static str,
+    },
+    /// A unit that is not one of this dimension's.
+    #[error("`{unit}` is not a unit of {dim}: use one of {accepted} (e.g. {example})")]
+    UnknownUnit {
+        /// The unit as typed.
+        unit: String,
+        /// What was expected.
+        dim: Dimension,
+        /// The accepted units, comma separated.
+        accepted: String,
+        /// A typical value with its unit.
+        example: &'static str,
+    },
+    /// A number too large to represent.
+    #[error("`{input}` is too large to be a {dim}")]
+    NotFinite {
+        /// The text as typed.
+        input: String,
+        /// What was expected.
+        dim: Dimension,
+    },
+}
+
+/// Brings a typed unit to the form the alias table uses: no spaces, no
+/// multiplication dots, superscripts as digits, `º` as `°`.
+fn canonical_unit(unit: &str) -> String {
+    unit.chars()
+        .filter(|c| !c.is_whitespace() && !matches!(c, '·' | '⋅' | '*' | '-' | '.' | '^'))
+        .map(|c| match c {
+            '²' => '2',
+            '³' => '3',
+            'º' => '°',
+            other => other,
+        })
+        .collect()
+}
+
+fn find_unit(dim: Dimension, typed: &str) -> Option<&'static UnitDef> {
+    let canon = canonical_unit(typed);
+    if let Some(u) = units_of(dim).find(|u| u.aliases.contains(&canon.as_str())) {
+        return Some(u);
+    }
+    // Case-insensitive fallback, only when it is unambiguous in this dimension
+    // (`KPA`, `PSI`, `Mph`), never across dimensions.
+    let lower = canon.to_lowercase();
+    let mut hits = units_of(dim).filter(|u| u.aliases.iter().any(|a| a.to_lowercase() == lower));
+    match (hits.next(), hits.next()) {
+        (Some(u), None) => Some(u),
+        _ => None,
+    }
+}
+
+/// Splits `"2.8 bar"` into the number's text and the rest.
+fn split_number(s: &str) -> (&str, &str) {
+    let bytes = s.as_bytes();
+    let mut i = 0;
+    if matches!(bytes.first(), Some(b'+' | b'-')) {
+        i = 1;
+    }
+    let mut digits = 0;
+    while let Some(b) = bytes.get(i) {
+        if b.is_ascii_digit() {
+            digits += 1;
+            i += 1;
+        } else if *b == b'.' {
+            i += 1;
+        } else {
+            break;
+        }
+    }
+    if digits == 0 {
+        return ("", s);
+    }
+    // Exponent only when digits follow: `2e5Pa` yes, `2 e` never arises.
+    if matches!(bytes.get(i), Some(b'e' | b'E')) {
+        let mut j = i + 1;
+        if matches!(bytes.get(j), Some(b'+' | b'-')) {
+            j += 1;
+        }
+        if bytes.get(j).is_some_and(u8::is_ascii_digit) {
+            while bytes.get(j).is_some_and(u8::is_ascii_digit) {
+                j += 1;
+            }
+            i = j;
+        }
+    }
+    // `i` only ever advanced over ASCII bytes, so it is a char boundary.
+    s.split_at(i)
+}
+
+/// Reads a quantity typed with its unit (`2.8bar`, `40 psi`, `12L/min`,
+/// `0.18lbf·in`) and returns it in SI (°C for temperatures).
+///
+/// Spaces between number and unit are allowed; the unit must be one of the
+/// dimension's ([`Dimension::accepted_units`]). The value's sign and range are
+/// not checked here: that is the caller's job, with the caller's field name.
+pub fn parse_quantity(dim: Dimension, text: &str) -> Result<f64, UnitError> {
+    let input = text.trim();
+    if input.is_empty() {
+        return Err(UnitError::Empty {
+            dim,
+            example: dim.example(),
+        });
+    }
+    let (number, rest) = split_number(input);
+    let value: f64 = match number.parse() {
+        Ok(v) => v,
+        Err(_) => {
+            return Err(UnitError::NotANumber {
+                input: input.to_string(),
+                dim,
+                example: dim.example(),
+            })
+        }
+    };
+    let unit_text = rest.trim();
+    let accepted = || dim.accepted_units().join(", ");
+    if unit_text.is_empty() {
+        return Err(UnitError::MissingUnit {
+            input: input.to_string(),
+            dim,
+            accepted: accepted(),
+            example: dim.example(),
+        });
+    }
+    let Some(u) = find_unit(dim, unit_text) else {
+        return Err(UnitError::UnknownUnit {
+            unit: unit_text.to_string(),
+            dim,
+            accepted: accepted(),
+            example: dim.example(),
+        });
+    };
+    let si = value * u.scale + u.offset;
+    if !si.is_finite() {
+        return Err(UnitError::NotFinite {
+            input: input.to_string(),
+            dim,
+        });
+    }
+    Ok(si)
+}
+
+/// The unit label shown for `dim` in `system` (`"kPa"`, `"gpm"`, `"°"`), for table headers.
+pub fn unit_label(dim: Dimension, system: UnitSystem) -> &'static str {
+    display_unit(dim, system).label
+}
+
+/// An SI value (°C for temperatures) in the display unit of `dim` in `system`.
+pub fn to_display(dim: Dimension, si: f64, system: UnitSystem) -> f64 {
+    let u = display_unit(dim, system);
+    (si - u.offset) / u.scale
+}
+
+/// The inverse of [`to_display`]: a value in the display unit back to SI.
+pub fn from_display(dim: Dimension, shown: f64, system: UnitSystem) -> f64 {
+    let u = display_unit(dim, system);
+    shown * u.scale + u.offset
+}
+
+/// A number with a sensible precision for a reading: three significant
+/// figures, but never rounding away digits left of the decimal point
+/// (`280`, `1250`, `40.6`, `2.80`, `0.0200`). Non-finite values show as `n/a`.
+pub fn format_number(value: f64) -> String {
+    if !value.is_finite() {
+        return "n/a".to_string();
+    }
+    if value == 0.0 {
+        return "0".to_string();
+    }
+    let magnitude = value.abs().log10().floor();
+    let decimals = if magnitude >= 2.0 {
+        0
+    } else {
+        // Three significant figures; capped so tiny values stay readable.
+        (2.0 - magnitude).min(12.0) as usize
+    };
+    let text = format!("{value:.decimals$}");
+    // Rounding can carry into a new digit (99.96 → "100.0"); one digit fewer then.
+    let rounded: f64 = text.parse().unwrap_or(value);
+    if decimals > 0 && rounded.abs().log10().floor() > magnitude {
+        let d = decimals - 1;
+        return format!("{value:.d$}");
+    }
+    text
+}
+
+/// An SI value (°C for temperatures) as text in the unit a practitioner reads,
+/// e.g. `"280 kPa"`, `"40.6 psi"`, `"2.40 mm"`, `"22.0°"`, `"20.0 °C"`.
+///
+/// Angles and temperatures show one decimal; everything else three
+/// significant figures (see [`format_number`]).
+pub fn format_quantity(dim: Dimension, si: f64, system: UnitSystem) -> String {
+    let u = display_unit(dim, system);
+    let shown = to_display(dim, si, system);
+    let number = match dim {
+        D::Angle | D::Temperature if shown.is_finite() => format!("{shown:.1}"),
+        _ => format_number(shown),
+    };
+    if u.label == "°" {
+        format!("{number}°")
+    } else {
+        format!("{number} {}", u.label)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn close(a: f64, b: f64, rel: f64) -> bool {
+        (a - b).abs() <= rel * a.abs().max(b.abs())
+    }
+
+    #[test]
+    fn nist_sp811_factors() {
+        // NIST SP 811 (2008), Appendix B.8, factors to seven significant figures.
+        assert!(close(PSI_PA, 6.894_757e3, 1e-7)); // psi → Pa
+        assert!(close(LBF_IN_N_M, 1.129_848e-1, 1e-6)); // lbf·in → N·m
+        assert!(close(LBF_FT_N_M, 1.355_818, 1e-6)); // lbf·ft → N·m
+        assert!(close(US_GALLON_M3, 3.785_412e-3, 1e-6)); // gal (US) → m³
+        assert!(close(LB_IN2_KG_M2, 2.926_397e-4, 1e-6)); // lb·in² → kg·m²
+        assert!(close(LB_FT3_KG_M3, 1.601_846e1, 1e-6)); // lb/ft³ → kg/m³
+        assert!(close(OUNCE_KG, 2.834_952e-2, 1e-6)); // oz (avoirdupois) → kg
+        assert!(close(POUND_FORCE_N, 4.448_222, 1e-6)); // lbf → N
+                                                        // Exact ones (SP 811 marks them exact).
+        assert_eq!(MPH_M_S, 0.447_04);
+        assert!(close(US_GALLON_M3, 3.785_411_784e-3, 1e-15));
+        assert!(close(POUND_FORCE_N, 4.448_221_615_260_5, 1e-15));
+        // 1 gpm = 3.785 411 784 L/min; 1 m³/h = 16.667 L/min.
+        assert!(close(
+            parse_quantity(D::Flow, "1gpm").unwrap(),
+            3.785_411_784e-3 / 60.0,
+            1e-15
+        ));
+    }
+
+    #[test]
+    fn parses_the_forms_the_cli_documents() {
+        let cases: &[(Dimension, &str, f64)] = &[
+            (D::Pressure, "2.8bar", 2.8e5),
+            (D::Pressure, "40psi", 40.0 * PSI_PA),
+            (D::Pressure, "280kPa", 280e3),
+            (D::Pressure, "280 kPa", 280e3),
+            (D::Pressure, "0.3 MPa", 3e5),
+            (D::Flow, "12L/min", 12e-3 / 60.0),
+            (D::Flow, "12 l/min", 12e-3 / 60.0),
+            (D::Flow, "12 L_min", 12e-3 / 60.0),
+            (D::Flow, "3.2gpm", 3.2 * US_GALLON_M3 / 60.0),
+            (D::Flow, "0.7m3/h", 0.7 / 3600.0),
+            (D::Flow, "0.7 m³/h", 0.7 / 3600.0),
+            (D::Length, "7.5m", 7.5),
+            (D::Length, "25ft", 25.0 * 0.3048),
+            (D::SmallLength, "6.5in", 6.5 * 0.0254),
+            (D::SmallLength, "160mm", 0.16),
+            (D::Length, "160 mm", 0.16),
+            (D::Angle, "22deg", 22.0 * PI / 180.0),
+            (D::Angle, "22°", 22.0 * PI / 180.0),
+            (D::Angle, "0.5rad", 0.5),
+            (D::Time, "14.2s", 14.2),
+            (D::Time, "2 min", 120.0),
+            (D::Volume, "5L", 5e-3),
+            (D::Volume, "1.2gal", 1.2 * US_GALLON_M3),
+            (D::Torque, "0.02N·m", 0.02),
+            (D::Torque, "0.02Nm", 0.02),
+            (D::Torque, "0.02 N m", 0.02),
+            (D::Torque, "0.18lbf·in", 0.18 * LBF_IN_N_M),
+            (D::Torque, "0.18 lbf-in", 0.18 * LBF_IN_N_M),
+            (D::AngularSpeed, "30rpm", PI),
+            (D::Temperature, "18C", 18.0),
+            (D::Temperature, "65°F", (65.0 - 32.0) / 1.8),
+            (D::Temperature, "293.15 K", 20.0),
+            (D::Mass, "180g", 0.18),
+            (D::Mass, "0.4lb", 0.4 * POUND_KG),
+            (D::Area, "110mm2", 110e-6),
+            (D::Area, "0.17in²", 0.17 * 0.0254 * 0.0254),
+            (D::Speed, "4mph", 4.0 * 0.447_04),
+            (D::Inertia, "0.0012kg·m2", 0.0012),
+            (D::Density, "8500kg/m3", 8500.0),
+            (D::Density, "8.5 g/cm3", 8500.0),
+            (D::Pressure, "2e5Pa", 2e5),
+            (D::Pressure, "-5 kPa", -5e3),
+            (D::Pressure, ".5bar", 0.5e5),
+            (D::Pressure, "40 PSI", 40.0 * PSI_PA),
+            (D::ApplicationRate, "12mm/h", 12e-3 / 3600.0),
+        ];
+        for &(dim, text, want) in cases {
+            let got = parse_quantity(dim, text).unwrap_or_else(|e| panic!("{text}: {e}"));
+            assert!(close(got, want, 1e-12), "{text}: {got} vs {want}");
+        }
+    }
+
+    #[test]
+    fn errors_say_what_is_accepted() {
+        let e = parse_quantity(D::Pressure, "2.8").unwrap_err();
+        assert!(matches!(e, UnitError::MissingUnit { .. }));
+        let msg = e.to_string();
+        assert!(
+            msg.contains("kPa") && msg.contains("psi") && msg.contains("bar"),
+            "{msg}"
+        );
+
+        let e = parse_quantity(D::Pressure, "2.8 lpm").unwrap_err();
+        let msg = e.to_string();
+        assert!(matches!(e, UnitError::UnknownUnit { .. }));
+        assert!(msg.contains("`lpm` is not a unit of pressure"), "{msg}");
+        assert!(msg.contains("psi"), "{msg}");
+
+        let e = parse_quantity(D::Flow, "fast").unwrap_err();
+        assert!(matches!(e, UnitError::NotANumber { .. }), "{e}");
+        assert!(e.to_string().contains("L/min"));
+
+        assert!(matches!(
+            parse_quantity(D::Flow, "  "),
+            Err(UnitError::Empty { .. })
+        ));
+        assert!(matches!(
+            parse_quantity(D::Pressure, "1e999bar"),
+            Err(UnitError::NotFinite { .. })
+        ));
+        // A length unit is not a pressure, in either case.
+        assert!(parse_quantity(D::Pressure, "3m").is_err());
+        assert!(parse_quantity(D::Length, "3kPa").is_err());
+        // Only one dot in a number: `1.2.3m` leaves `.3m` as the unit.
+        assert!(parse_quantity(D::Length, "1.2.3m").is_err());
+    }
+
+    #[test]
+    fn display_round_trips_in_both_systems() {
+        let values = [0.0, 1e-6, 0.0024, 0.16, 1.0, 7.5, 280e3, 123.456];
+        for dim in Dimension::ALL {
+            for system in [UnitSystem::Metric, UnitSystem::Us] {
+                for &si in &values {
+                    let shown = to_display(dim, si, system);
+                    let back = from_display(dim, shown, system);
+                    assert!(
+                        (back - si).abs() <= 1e-12 * si.abs().max(1.0),
+                        "{dim:?} {system}: {si} → {shown} → {back}"
+                    );
+                    // What we show can be typed back in.
+                    let typed = format!("{shown:e}{}", unit_label(dim, system));
+                    let parsed = parse_quantity(dim, &typed)
+                        .unwrap_or_else(|e| panic!("{dim:?} `{typed}`: {e}"));
+                    assert!(
+                        (parsed - si).abs() <= 1e-12 * si.abs().max(1.0),
+                        "{dim:?} `{typed}` → {parsed}, want {si}"
+                    );
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn every_display_unit_is_in_the_table() {
+        for dim in Dimension::ALL {
+            for system in [UnitSystem::Metric, UnitSystem::Us] {
+                assert_ne!(unit_label(dim, system), "(SI)", "{dim:?} {system}");
+            }
+        }
+    }
+
+    #[test]
+    fn formats_like_a_gauge_reading() {
+        let m = UnitSystem::Metric;
+        let us = UnitSystem::Us;
+        assert_eq!(format_quantity(D::Pressure, 280e3, m), "280 kPa");
+        // 280 kPa = 40.61 psi.
+        assert_eq!(format_quantity(D::Pressure, 280e3, us), "40.6 psi");
+        assert_eq!(format_quantity(D::SmallLength, 0.0024, m), "2.40 mm");
+        assert_eq!(format_quantity(D::SmallLength, 0.0254 * 6.5, us), "6.50 in");
+        assert_eq!(format_quantity(D::Length, 9.0, m), "9.00 m");
+        assert_eq!(format_quantity(D::Length, 9.0, us), "29.5 ft");
+        assert_eq!(format_quantity(D::Flow, 12e-3 / 60.0, m), "12.0 L/min");
+        assert_eq!(format_quantity(D::Flow, 12e-3 / 60.0, us), "3.17 gpm");
+        assert_eq!(format_quantity(D::Torque, 0.02, m), "0.0200 N·m");
+        assert_eq!(format_quantity(D::Torque, 0.02, us), "0.177 lbf·in");
+        assert_eq!(format_quantity(D::Temperature, 20.0, m), "20.0 °C");
+        assert_eq!(format_quantity(D::Temperature, 20.0, us), "68.0 °F");
+        assert_eq!(format_quantity(D::Angle, 22f64.to_radians(), us), "22.0°");
+        assert_eq!(format_quantity(D::AngularSpeed, PI, m), "30.0 rpm");
+        assert_eq!(format_quantity(D::Pressure, 1.25e6, m), "1250 kPa");
+        assert_eq!(format_quantity(D::Pressure, -5e3, m), "-5.00 kPa");
+        assert_eq!(format_quantity(D::Pressure, f64::NAN, m), "n/a kPa");
+        assert_eq!(format_quantity(D::Angle, f64::INFINITY, m), "n/a°");
+        assert_eq!(format_number(99.96), "100");
+        assert_eq!(format_number(9.996), "10.0");
+        assert_eq!(format_number(0.0), "0");
+        assert_eq!(unit_label(D::Flow, us), "gpm");
+        assert_eq!(unit_label(D::Inertia, m), "kg·m²");
+    }
+}
