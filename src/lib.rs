@@ -5,8 +5,10 @@
 //! - [`units`]: quantities typed with units, and values shown in metric or US units.
 //! - [`scenario`]: the scenario file (RON with unit tags), its validation into a
 //!   [`physics::design::Design`], writing a design back, and safe saving.
+//! - [`cli`]: the command line, a thin layer over the above.
 #![warn(missing_docs)]
 
+pub mod cli;
 pub mod physics;
 pub mod scenario;
 pub mod units;

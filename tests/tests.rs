@@ -1,3 +1,4 @@
+mod cli;
 mod engine_properties;
 mod engine_reference;
 mod reference_fluid;

@@ -37,6 +37,7 @@ pub enum Command {
     Solve {
         /// The scenario file.
         file: PathBuf,
+        /// Format and units of the report.
         #[command(flatten)]
         out: Output,
         /// Exit with status 1 when the design stalls or finds no equilibrium.
@@ -50,6 +51,7 @@ pub enum Command {
         /// Number of rows (at least 2).
         #[arg(long, default_value_t = 41, value_parser = clap::value_parser!(u32).range(2..=100_000))]
         points: u32,
+        /// Format and units of the report.
         #[command(flatten)]
         out: Output,
     },
@@ -149,13 +151,26 @@ pub fn load_design(path: &Path) -> Result<Design, CliError> {
 /// Run a parsed command line, writing reports to `out`.
 pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
     match command {
-        Command::Solve { file, out: o, strict } => solve::run(&file, o, strict, out),
-        Command::Table { file, points, out: o } => table::run(&file, points as usize, o, out),
+        Command::Solve {
+            file,
+            out: o,
+            strict,
+        } => solve::run(&file, o, strict, out),
+        Command::Table {
+            file,
+            points,
+            out: o,
+        } => table::run(&file, points as usize, o, out),
         Command::New { file, units, force } => new_scenario(&file, units.into(), force, out),
     }
 }
 
-fn new_scenario(path: &Path, units: UnitSystem, force: bool, out: &mut dyn Write) -> Result<Outcome, CliError> {
+fn new_scenario(
+    path: &Path,
+    units: UnitSystem,
+    force: bool,
+    out: &mut dyn Write,
+) -> Result<Outcome, CliError> {
     if path.exists() && !force {
         return Err(CliError::Usage(format!(
             "{} already exists; choose another name or add --force (the old file is kept as .bak)",
@@ -171,7 +186,10 @@ fn new_scenario(path: &Path, units: UnitSystem, force: bool, out: &mut dyn Write
 ///
 /// Without a command, `open_interface` is called with the file to open (or
 /// `None` for the built-in example).
-pub fn main_with(cli: Cli, open_interface: impl FnOnce(Option<PathBuf>) -> Result<(), String>) -> ExitCode {
+pub fn main_with(
+    cli: Cli,
+    open_interface: impl FnOnce(Option<PathBuf>) -> Result<(), String>,
+) -> ExitCode {
     let stdout = std::io::stdout();
     let mut lock = stdout.lock();
     let result = match cli.command {
@@ -194,9 +212,14 @@ pub fn main_with(cli: Cli, open_interface: impl FnOnce(Option<PathBuf>) -> Resul
 pub fn open_without_command(file: Option<PathBuf>) -> Result<(), String> {
     let design = match &file {
         Some(path) => load_design(path).map_err(|e| format!("{e:#}"))?,
-        None => scenario::builtin_example().to_design().map_err(|e| format!("{e:#}"))?,
+        None => scenario::builtin_example()
+            .to_design()
+            .map_err(|e| format!("{e:#}"))?,
     };
     let report = crate::physics::balance::solve(&design);
-    print!("{}", solve::solve_text(&design, &report, UnitSystem::Metric));
+    print!(
+        "{}",
+        solve::solve_text(&design, &report, UnitSystem::Metric)
+    );
     Ok(())
 }

@@ -85,7 +85,10 @@ struct SpinUpJson {
 /// The water path the report describes: at the operating point when
 /// running, at rest otherwise (the water still flows through a stalled rotor).
 pub fn reported_state(report: &SpinReport) -> &SupplyState {
-    report.operating.as_ref().map_or(&report.at_rest, |op| &op.point.state)
+    report
+        .operating
+        .as_ref()
+        .map_or(&report.at_rest, |op| &op.point.state)
 }
 
 /// Absolute jet velocity of each arm's jet as [radial, tangential, vertical], m/s.
@@ -106,7 +109,12 @@ pub fn jet_components(design: &Design, state: &SupplyState) -> Vec<[f64; 3]> {
 /// Build the JSON report.
 pub fn solve_json(design: &Design, report: &SpinReport) -> SolveJson {
     let state = reported_state(report);
-    let r_max = design.rotor.arms.iter().map(|a| a.radius_m).fold(0.0, f64::max);
+    let r_max = design
+        .rotor
+        .arms
+        .iter()
+        .map(|a| a.radius_m)
+        .fold(0.0, f64::max);
     SolveJson {
         scenario: design.name.clone(),
         status: report.status.key(),
@@ -176,7 +184,9 @@ pub fn solve_json(design: &Design, report: &SpinReport) -> SolveJson {
 pub fn headline(report: &SpinReport, units: UnitSystem) -> String {
     let margin = report
         .start_margin
-        .map_or("no breakaway torque".to_string(), |m| format!("start margin {m:.2}"));
+        .map_or("no breakaway torque".to_string(), |m| {
+            format!("start margin {m:.2}")
+        });
     match (&report.status, &report.operating) {
         (SpinStatus::Running, Some(op)) => {
             let w = op.omega_rad_s();
@@ -209,14 +219,22 @@ pub fn solve_text(design: &Design, report: &SpinReport, units: UnitSystem) -> St
     s.push('\n');
     if let Some(op) = &report.operating {
         let r = op.point.resist;
-        let r_max = design.rotor.arms.iter().map(|a| a.radius_m).fold(0.0, f64::max);
+        let r_max = design
+            .rotor
+            .arms
+            .iter()
+            .map(|a| a.radius_m)
+            .fold(0.0, f64::max);
         s.push_str("Operating point\n");
         s.push_str(&format!(
             "  speed              {:.1} rpm   tip speed {}\n",
             rpm(op.omega_rad_s()),
             q(D::Speed, op.omega_rad_s() * r_max)
         ));
-        s.push_str(&format!("  drive torque       {}\n", q(D::Torque, op.point.drive_n_m)));
+        s.push_str(&format!(
+            "  drive torque       {}\n",
+            q(D::Torque, op.point.drive_n_m)
+        ));
         s.push_str(&format!(
             "  resisting torque   {} = bearing {} + seal {} + brake {} + air {}\n",
             q(D::Torque, r.total_n_m()),
@@ -239,24 +257,39 @@ pub fn solve_text(design: &Design, report: &SpinReport, units: UnitSystem) -> St
         "  stall torque       {}   breakaway torque {}   margin {}\n",
         q(D::Torque, report.stall_torque_n_m),
         q(D::Torque, report.breakaway_torque_n_m),
-        report.start_margin.map_or("—".into(), |m| format!("{m:.2}"))
+        report
+            .start_margin
+            .map_or("—".into(), |m| format!("{m:.2}"))
     ));
     s.push_str(&format!(
         "  frictionless runaway {}\n",
         report
             .runaway_rad_s
-            .map_or("none (jets stay ahead of the arm)".into(), |w| format!("{:.0} rpm", rpm(w)))
+            .map_or("none (jets stay ahead of the arm)".into(), |w| format!(
+                "{:.0} rpm",
+                rpm(w)
+            ))
     ));
     if !report.equilibria.is_empty() {
         let list: Vec<String> = report
             .equilibria
             .iter()
-            .map(|e| format!("{:.1} rpm ({})", rpm(e.omega_rad_s), if e.stable { "stable" } else { "unstable" }))
+            .map(|e| {
+                format!(
+                    "{:.1} rpm ({})",
+                    rpm(e.omega_rad_s),
+                    if e.stable { "stable" } else { "unstable" }
+                )
+            })
             .collect();
         s.push_str(&format!("  equilibria         {}\n", list.join(", ")));
     }
     let state = reported_state(report);
-    s.push_str(if report.operating.is_some() { "Water at speed\n" } else { "Water at rest\n" });
+    s.push_str(if report.operating.is_some() {
+        "Water at speed\n"
+    } else {
+        "Water at rest\n"
+    });
     s.push_str(&format!(
         "  inlet {}   hub {}   total flow {}",
         q(D::Pressure, state.inlet_pressure_pa),
@@ -264,7 +297,10 @@ pub fn solve_text(design: &Design, report: &SpinReport, units: UnitSystem) -> St
         q(D::Flow, state.total_flow_m3_s)
     ));
     if state.line_loss_pa > 0.0 {
-        s.push_str(&format!("   hose loss {}", q(D::Pressure, state.line_loss_pa)));
+        s.push_str(&format!(
+            "   hose loss {}",
+            q(D::Pressure, state.line_loss_pa)
+        ));
     }
     s.push('\n');
     let speed = crate::units::unit_label(D::Speed, units);
@@ -278,7 +314,12 @@ pub fn solve_text(design: &Design, report: &SpinReport, units: UnitSystem) -> St
         format!("V vertical {speed}"),
     ]);
     let show = |dim, v| crate::units::format_number(crate::units::to_display(dim, v, units));
-    for (k, (n, v)) in state.nozzles.iter().zip(jet_components(design, state)).enumerate() {
+    for (k, (n, v)) in state
+        .nozzles
+        .iter()
+        .zip(jet_components(design, state))
+        .enumerate()
+    {
         if n.flowing {
             t.row([
                 format!("{}", k + 1),
@@ -295,7 +336,13 @@ pub fn solve_text(design: &Design, report: &SpinReport, units: UnitSystem) -> St
     }
     s.push_str(&t.render(2));
     if let Some(p) = report.power {
-        let pct = |x: f64| if p.hydraulic_w > 0.0 { 100.0 * x / p.hydraulic_w } else { 0.0 };
+        let pct = |x: f64| {
+            if p.hydraulic_w > 0.0 {
+                100.0 * x / p.hydraulic_w
+            } else {
+                0.0
+            }
+        };
         s.push_str("Power\n");
         s.push_str(&format!(
             "  hydraulic in {:.3} W   shaft {:.3} W ({:.1} %, all of it friction heat)   jet kinetic {:.3} W ({:.1} %)\n",
@@ -315,7 +362,8 @@ pub fn run(path: &Path, o: Output, strict: bool, out: &mut dyn Write) -> Result<
     let report = solve(&design);
     match o.format {
         Format::Json => {
-            serde_json::to_writer_pretty(&mut *out, &solve_json(&design, &report)).map_err(std::io::Error::from)?;
+            serde_json::to_writer_pretty(&mut *out, &solve_json(&design, &report))
+                .map_err(std::io::Error::from)?;
             writeln!(out)?;
         }
         Format::Text => write!(out, "{}", solve_text(&design, &report, o.units.into()))?,
@@ -332,9 +380,17 @@ pub fn run(path: &Path, o: Output, strict: bool, out: &mut dyn Write) -> Result<
                     crate::units::unit_label(dim, units).to_string(),
                 ])
             };
-            put("speed", D::AngularSpeed, report.operating.as_ref().map(|op| op.omega_rad_s()))?;
+            put(
+                "speed",
+                D::AngularSpeed,
+                report.operating.as_ref().map(|op| op.omega_rad_s()),
+            )?;
             put("stall torque", D::Torque, Some(json.stall_torque_n_m))?;
-            put("breakaway torque", D::Torque, Some(json.breakaway_torque_n_m))?;
+            put(
+                "breakaway torque",
+                D::Torque,
+                Some(json.breakaway_torque_n_m),
+            )?;
             put("inlet pressure", D::Pressure, Some(json.inlet_pressure_pa))?;
             put("hub pressure", D::Pressure, Some(json.hub_pressure_pa))?;
             put("total flow", D::Flow, Some(json.total_flow_m3_s))?;

@@ -77,7 +77,12 @@ pub fn row_values(r: &TableRow, units: UnitSystem) -> Vec<f64> {
 }
 
 /// Run `table`.
-pub fn run(path: &Path, points: usize, o: Output, out: &mut dyn Write) -> Result<Outcome, CliError> {
+pub fn run(
+    path: &Path,
+    points: usize,
+    o: Output,
+    out: &mut dyn Write,
+) -> Result<Outcome, CliError> {
     let design = load_design(path)?;
     let report = solve(&design);
     let rows = torque_table(&design, &report, points);
@@ -102,7 +107,11 @@ pub fn run(path: &Path, points: usize, o: Output, out: &mut dyn Write) -> Result
                 writeln!(out, "  warning: {warning}")?;
             }
             if let Some(op) = &report.operating {
-                writeln!(out, "  operating point {:.1} rpm (net torque crosses zero there)", rpm(op.omega_rad_s()))?;
+                writeln!(
+                    out,
+                    "  operating point {:.1} rpm (net torque crosses zero there)",
+                    rpm(op.omega_rad_s())
+                )?;
             }
             writeln!(out)?;
             let mut t = TextTable::new(headers(units));
