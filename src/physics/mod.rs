@@ -5,8 +5,10 @@
 //! - [`fluid`]: water and air properties (M11).
 //! - [`pipe`]: friction factors and duct losses (M3, M4).
 //! - [`jet`]: a jet at the nozzle exit, the hand-over to the throw (M7).
+//! - [`trajectory`]: drop flight with drag and wind, drop drag law, terminal speed (M7).
 
 pub mod design;
 pub mod fluid;
 pub mod jet;
 pub mod pipe;
+pub mod trajectory;
