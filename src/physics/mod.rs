@@ -6,9 +6,15 @@
 //! - [`pipe`]: friction factors and duct losses (M3, M4).
 //! - [`jet`]: a jet at the nozzle exit, the hand-over to the throw (M7).
 //! - [`trajectory`]: drop flight with drag and wind, drop drag law, terminal speed (M7).
+//! - [`spray`]: drop-size spectrum per nozzle, calibration to a measured throw (M8).
+//! - [`pattern`]: radial application profile and the 2-D pattern in wind (M8).
+//! - [`layout`]: head layouts, overlap, CU / DU and the soil-intake check (M9).
 
 pub mod design;
 pub mod fluid;
 pub mod jet;
+pub mod layout;
+pub mod pattern;
 pub mod pipe;
+pub mod spray;
 pub mod trajectory;

@@ -35,8 +35,9 @@
 //!
 //! Limits: F depends on size only, as fitted at terminal speed. A large drop
 //! moving fast just after the nozzle is probably flatter than at terminal speed,
-//! and drops above about 6 mm break up; neither is modelled. Below 0.5 mm the
-//! factor stays near 0.94 (those drops carry little water and land close in).
+//! and drops above about 6 mm break up; neither is modelled. Above 5.8 mm the
+//! factor is held at its 5.8 mm value (1.96). Below 0.5 mm it stays near 0.94
+//! (those drops carry little water and land close in).
 //!
 //! # Integration
 //!
@@ -196,10 +197,14 @@ pub fn clift_gauvin(re: f64) -> f64 {
     schiller_naumann(re) + 0.42 / (1.0 + 42_500.0 * re.powf(-1.16))
 }
 
+/// Largest drop diameter of the deformation fit, m (the end of Gunn & Kinzer's table).
+pub const DEFORMATION_FIT_MAX_M: f64 = 5.8e-3;
+
 /// Deformation factor F(d) = 0.94 + (d / 5.74 mm)^2.1 on sphere drag for a
-/// water drop of diameter `diameter_m` (fitted to Gunn & Kinzer 1949, module docs).
+/// water drop of diameter `diameter_m` (fitted to Gunn & Kinzer 1949, module
+/// docs), held at its 5.8 mm value for larger drops rather than extrapolated.
 pub fn deformation_factor(diameter_m: f64) -> f64 {
-    0.94 + (diameter_m.max(0.0) / 5.74e-3).powf(2.1)
+    0.94 + (diameter_m.clamp(0.0, DEFORMATION_FIT_MAX_M) / 5.74e-3).powf(2.1)
 }
 
 impl DragLaw {
