@@ -5,9 +5,11 @@
 //! - [`units`]: quantities typed with units, and values shown in metric or US units.
 //! - [`scenario`]: the scenario file (RON with unit tags), its validation into a
 //!   [`physics::design::Design`], writing a design back, and safe saving.
+//! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
 //! - [`cli`]: the command line, a thin layer over the above.
 #![warn(missing_docs)]
 
+pub mod audit;
 pub mod cli;
 pub mod physics;
 pub mod scenario;

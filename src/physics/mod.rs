@@ -8,6 +8,10 @@
 //! - [`torque`]: drive torque by moment of momentum, resisting torque (M2, M5).
 //! - [`balance`]: equilibria, start check, runaway, spin-up, power (M6).
 //! - [`jet`]: a jet at the nozzle exit, the hand-over to the throw (M7).
+//! - [`trajectory`]: drop flight with drag and wind, drop drag law, terminal speed (M7).
+//! - [`spray`]: drop-size spectrum per nozzle, calibration to a measured throw (M8).
+//! - [`pattern`]: radial application profile and the 2-D pattern in wind (M8).
+//! - [`layout`]: head layouts, overlap, CU / DU and the soil-intake check (M9).
 //! - [`root`]: bracketed root finding with the bracket kept for reports.
 
 pub mod balance;
@@ -16,6 +20,10 @@ pub mod fixtures;
 pub mod fluid;
 pub mod hydraulics;
 pub mod jet;
+pub mod layout;
+pub mod pattern;
 pub mod pipe;
 pub mod root;
+pub mod spray;
 pub mod torque;
+pub mod trajectory;

@@ -1,0 +1,804 @@
+//! Where the water lands: the radial profile and the 2-D pattern (model.md M8).
+//!
+//! **Radial profile (still air).** Each nozzle's spectrum is split into bins
+//! ([`crate::physics::spray`]). A drop of each bin edge is flown; the bin's
+//! share of the nozzle flow lands in the ring between the landing distances of
+//! its two edge drops, spread evenly over that ring's area:
+//!
+//! ```text
+//! rate = Q · f_bin / (π (r_outer² − r_inner²))      (m/s; × 3.6·10⁶ → mm/h)
+//! ```
+//!
+//! Rings from all bins and nozzles are summed into one piecewise-constant
+//! profile. A ring narrower than [`MIN_RING_WIDTH_M`] is widened to that width
+//! about its centre (the rate follows from the widened area, so no water is lost).
+//!
+//! **2-D pattern (wind).** Each jet is swept through a full turn at
+//! time-uniform azimuths (steady rotation: uniform in angle), and every bin edge
+//! is flown at every azimuth. Between two neighbouring azimuths and two
+//! neighbouring edges the landing points span a quadrilateral; the bin's water
+//! for that part of the turn is spread evenly over its area (sub-points of the
+//! bilinear map weighted by its Jacobian) and deposited onto a grid of square
+//! cells by area weighting (cloud-in-cell). The grid is sized to hold every
+//! landing point with a margin, so every litre lands on it.
+//!
+//! Rotation speed enters only through the jets: the caller passes jets built
+//! at the operating point (and at ω = 0 for the throw at rest).
+//!
+//! **Known limitation: uncalibrated throw runs short.** Every drop is flown as a
+//! drop from the nozzle exit, with the deformed-drop drag of
+//! [`crate::physics::trajectory`]. A real jet travels some distance as an intact
+//! stream before it breaks up, with far less drag per unit mass. For a
+//! non-rotating 5 mm jet at 300 kPa, 25° and 0.6 m high, the default spectrum
+//! throws 12.6 m, against 16.7–17.4 m from the rules of thumb in the project's
+//! references (common practice); a rigid-sphere law happens to give 16.8 m for
+//! the same drop, because its too-low drag stands in for the intact jet. Above
+//! about 4 mm the modelled throw hardly grows with drop size, so calibrating by
+//! drop-size scale ([`crate::physics::spray::calibrate`]) needs large factors.
+//! Relative results (rpm against throw, spacing, wind) are more trustworthy
+//! than the absolute radius; calibrate against a measured wetted radius.
+
+use super::design::SpraySpec;
+use super::jet::JetExit;
+use super::spray::{flows, no_flow, Spectrum, DEFAULT_BINS};
+use super::trajectory::{
+    flight_path, fly_jet, invalid, require_positive, FlightEnv, FlightOptions, FlightPath,
+    ThrowError,
+};
+use nalgebra::Vector2;
+use rayon::prelude::*;
+use std::f64::consts::PI;
+
+/// Metres of water per second to millimetres per hour.
+pub const M_S_TO_MM_H: f64 = 3.6e6;
+/// Narrowest ring a bin is spread over, m.
+pub const MIN_RING_WIDTH_M: f64 = 1e-3;
+/// Volume fraction of the spectrum below the "small" drop reported per nozzle.
+pub const SMALL_DROP_FRACTION: f64 = 0.1;
+
+/// Settings for throw and pattern calculations.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct PatternOptions {
+    /// Drop-size bins per nozzle.
+    pub bins: usize,
+    /// Calibration factor on drop sizes (1 when not calibrated).
+    pub scale: f64,
+    /// Trajectory accuracy.
+    pub flight: FlightOptions,
+    /// Azimuths per turn for the 2-D pattern.
+    pub azimuths: usize,
+    /// Grid cell size of the 2-D pattern, m; `None`: the pattern's larger
+    /// extent / [`AUTO_CELLS`].
+    pub cell_m: Option<f64>,
+}
+
+/// Cells across the larger extent of a 2-D pattern when no cell size is given.
+pub const AUTO_CELLS: f64 = 120.0;
+
+impl Default for PatternOptions {
+    fn default() -> Self {
+        PatternOptions {
+            bins: DEFAULT_BINS,
+            scale: 1.0,
+            flight: FlightOptions::pattern(),
+            azimuths: 72,
+            cell_m: None,
+        }
+    }
+}
+
+/// Throw of one nozzle in still air.
+#[derive(Debug, Clone, PartialEq)]
+pub struct NozzleThrow {
+    /// The nozzle's drop spectrum.
+    pub spectrum: Spectrum,
+    /// Landing distance from the spin axis of each bin-edge drop, m (small to large).
+    pub edge_distances_m: Vec<f64>,
+    /// Landing distance of the largest drop, m.
+    pub throw_largest_m: f64,
+    /// Landing distance of the volume-median (d50 of the spectrum) drop, m.
+    pub throw_median_m: f64,
+    /// Landing distance of the "small" drop, m.
+    pub throw_small_m: f64,
+    /// Volume-median drop of the (truncated) spectrum, m.
+    pub median_drop_m: f64,
+    /// The "small" drop: [`SMALL_DROP_FRACTION`] of the volume is in finer drops, m.
+    pub small_drop_m: f64,
+    /// Nozzle flow, m³/s.
+    pub flow_m3_s: f64,
+}
+
+/// One ring of the radial profile.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Ring {
+    /// Inner radius, m.
+    pub inner_m: f64,
+    /// Outer radius, m.
+    pub outer_m: f64,
+    /// Application rate over the ring, mm/h.
+    pub rate_mm_h: f64,
+}
+
+impl Ring {
+    /// Ring area, m².
+    pub fn area_m2(&self) -> f64 {
+        PI * (self.outer_m * self.outer_m - self.inner_m * self.inner_m)
+    }
+}
+
+/// A sampled point of the profile, for tables and charts.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct ProfilePoint {
+    /// Distance from the head, m.
+    pub r_m: f64,
+    /// Application rate, mm/h.
+    pub rate_mm_h: f64,
+}
+
+/// A single head's application rate against distance, in still air.
+///
+/// Piecewise constant: contiguous rings from the innermost landing to the
+/// wetted radius (gaps between landings are rings of rate 0); zero elsewhere.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RadialProfile {
+    /// Contiguous rings, inner to outer.
+    pub rings: Vec<Ring>,
+    /// Total flow the profile was built from, m³/s.
+    pub flow_m3_s: f64,
+}
+
+impl RadialProfile {
+    /// Builds the profile from rings that may overlap, each with its flow, m³/s.
+    fn from_pieces(pieces: &[(f64, f64, f64)], flow_m3_s: f64) -> RadialProfile {
+        let mut cuts: Vec<f64> = pieces.iter().flat_map(|&(a, b, _)| [a, b]).collect();
+        cuts.sort_by(f64::total_cmp);
+        cuts.dedup();
+        // Sweep: rate changes at each piece's edges.
+        let mut delta = vec![0.0; cuts.len()];
+        for &(a, b, q) in pieces {
+            let rate = q / (PI * (b * b - a * a)) * M_S_TO_MM_H;
+            if let (Ok(i), Ok(j)) = (
+                cuts.binary_search_by(|c| c.total_cmp(&a)),
+                cuts.binary_search_by(|c| c.total_cmp(&b)),
+            ) {
+                if let Some(d) = delta.get_mut(i) {
+                    *d += rate;
+                }
+                if let Some(d) = delta.get_mut(j) {
+                    *d -= rate;
+                }
+            }
+        }
+        let mut rings = Vec::with_capacity(cuts.len().saturating_sub(1));
+        let mut rate = 0.0;
+        for (w, d) in cuts.windows(2).zip(&delta) {
+            rate += d;
+            rings.push(Ring {
+                inner_m: w[0],
+                outer_m: w[1],
+                rate_mm_h: rate.max(0.0),
+            });
+        }
+        RadialProfile { rings, flow_m3_s }
+    }
+
+    /// Application rate at distance `r_m` from the head, mm/h.
+    pub fn rate_mm_h_at(&self, r_m: f64) -> f64 {
+        let i = self.rings.partition_point(|ring| ring.outer_m <= r_m);
+        match self.rings.get(i) {
+            Some(ring) if ring.inner_m <= r_m => ring.rate_mm_h,
+            _ => 0.0,
+        }
+    }
+
+    /// Outer edge of the wetted area, m.
+    pub fn outer_radius_m(&self) -> f64 {
+        self.rings.last().map_or(0.0, |r| r.outer_m)
+    }
+
+    /// The ring with the highest rate, if any water lands.
+    pub fn peak(&self) -> Option<Ring> {
+        self.rings
+            .iter()
+            .copied()
+            .filter(|r| r.rate_mm_h > 0.0)
+            .reduce(|a, b| if b.rate_mm_h > a.rate_mm_h { b } else { a })
+    }
+
+    /// Water landing on the profile, m³/s (Σ rate × ring area).
+    pub fn applied_flow_m3_s(&self) -> f64 {
+        self.rings
+            .iter()
+            .map(|r| r.rate_mm_h / M_S_TO_MM_H * r.area_m2())
+            .sum()
+    }
+
+    /// The profile sampled every `step_m` from the head out to the wetted radius.
+    pub fn sampled(&self, step_m: f64) -> Vec<ProfilePoint> {
+        let outer = self.outer_radius_m();
+        if !(step_m.is_finite() && step_m > 0.0) || outer <= 0.0 {
+            return Vec::new();
+        }
+        let n = (outer / step_m).ceil() as usize;
+        (0..=n)
+            .map(|i| {
+                let r = (i as f64 * step_m).min(outer);
+                ProfilePoint {
+                    r_m: r,
+                    rate_mm_h: self.rate_mm_h_at(r),
+                }
+            })
+            .collect()
+    }
+}
+
+/// Throw and radial profile of one head in still air.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ThrowReport {
+    /// Per nozzle, in the order of the jets given; `None` for a jet that does not flow.
+    pub nozzles: Vec<Option<NozzleThrow>>,
+    /// The radial application profile.
+    pub profile: RadialProfile,
+    /// Wetted radius: the farthest landing of any nozzle's largest drop, m.
+    pub wetted_radius_m: f64,
+    /// Depth applied in one turn at the peak ring, mm (`None` when ω = 0).
+    pub peak_depth_per_turn_mm: Option<f64>,
+    /// Calibration factor on drop sizes that was used.
+    pub calibration_scale: f64,
+    /// Total flow of the head, m³/s.
+    pub total_flow_m3_s: f64,
+}
+
+fn validate_options(opts: &PatternOptions) -> Result<(), ThrowError> {
+    if opts.bins == 0 {
+        return Err(invalid("drop-size bins", 0.0, "at least 1"));
+    }
+    require_positive("drop-size scale factor", opts.scale)?;
+    Ok(())
+}
+
+/// Throw of one nozzle: flies every bin edge and the median and small drops.
+pub fn nozzle_throw(
+    jet: &JetExit,
+    spec: &SpraySpec,
+    env: &FlightEnv,
+    opts: &PatternOptions,
+) -> Result<NozzleThrow, ThrowError> {
+    validate_options(opts)?;
+    let still = env.still();
+    let spectrum = Spectrum::for_jet(spec, jet, &still, opts.bins, opts.scale)?;
+    let edges = spectrum.edges_m();
+    let edge_distances_m = edges
+        .iter()
+        .map(|&d| fly_jet(jet, d, &still, &opts.flight).map(|l| l.distance_m))
+        .collect::<Result<Vec<f64>, ThrowError>>()?;
+    let median_drop_m = spectrum.diameter_at_fraction(0.5);
+    let small_drop_m = spectrum.diameter_at_fraction(SMALL_DROP_FRACTION);
+    let throw_median_m = fly_jet(jet, median_drop_m, &still, &opts.flight)?.distance_m;
+    let throw_small_m = fly_jet(jet, small_drop_m, &still, &opts.flight)?.distance_m;
+    let throw_largest_m = edge_distances_m.last().copied().unwrap_or(0.0);
+    Ok(NozzleThrow {
+        spectrum,
+        edge_distances_m,
+        throw_largest_m,
+        throw_median_m,
+        throw_small_m,
+        median_drop_m,
+        small_drop_m,
+        flow_m3_s: jet.flow_m3_s,
+    })
+}
+
+/// The rings one nozzle's bins land in: (inner m, outer m, flow m³/s).
+fn nozzle_rings(t: &NozzleThrow) -> Vec<(f64, f64, f64)> {
+    t.spectrum
+        .bins
+        .iter()
+        .zip(t.edge_distances_m.windows(2))
+        .filter(|(b, _)| b.volume_fraction > 0.0)
+        .map(|(b, w)| {
+            let (mut a, mut c) = (w[0].min(w[1]), w[0].max(w[1]));
+            if c - a < MIN_RING_WIDTH_M {
+                let mid = 0.5 * (a + c);
+                a = (mid - 0.5 * MIN_RING_WIDTH_M).max(0.0);
+                c = a + MIN_RING_WIDTH_M;
+            }
+            (a, c, t.flow_m3_s * b.volume_fraction)
+        })
+        .collect()
+}
+
+/// Throw, wetted radius and radial application profile of one head in still air.
+///
+/// `jets`: every nozzle's jet at the operating point; `omega_rad_s`: rotor
+/// speed (for the depth per turn). Wind in `env` is ignored (see [`windy_pattern`]).
+pub fn radial_pattern(
+    jets: &[JetExit],
+    spec: &SpraySpec,
+    env: &FlightEnv,
+    omega_rad_s: f64,
+    opts: &PatternOptions,
+) -> Result<ThrowReport, ThrowError> {
+    validate_options(opts)?;
+    if !(omega_rad_s.is_finite() && omega_rad_s >= 0.0) {
+        return Err(invalid("rotor speed (rad/s)", omega_rad_s, "zero or more"));
+    }
+    let nozzles = jets
+        .iter()
+        .map(|jet| {
+            if flows(jet) {
+                nozzle_throw(jet, spec, env, opts).map(Some)
+            } else {
+                Ok(None)
+            }
+        })
+        .collect::<Result<Vec<_>, ThrowError>>()?;
+    let flowing: Vec<&NozzleThrow> = nozzles.iter().flatten().collect();
+    if flowing.is_empty() {
+        return Err(no_flow());
+    }
+    let total: f64 = flowing.iter().map(|t| t.flow_m3_s).sum();
+    let pieces: Vec<(f64, f64, f64)> = flowing.iter().flat_map(|t| nozzle_rings(t)).collect();
+    let profile = RadialProfile::from_pieces(&pieces, total);
+    let wetted = flowing
+        .iter()
+        .map(|t| t.throw_largest_m)
+        .fold(0.0, f64::max);
+    let peak_depth_per_turn_mm = match profile.peak() {
+        Some(peak) if omega_rad_s > 0.0 => Some(peak.rate_mm_h / 3600.0 * (2.0 * PI / omega_rad_s)),
+        _ => None,
+    };
+    Ok(ThrowReport {
+        nozzles,
+        profile,
+        wetted_radius_m: wetted,
+        peak_depth_per_turn_mm,
+        calibration_scale: opts.scale,
+        total_flow_m3_s: total,
+    })
+}
+
+/// Wetted radius with the rotor held still against the rotor at speed.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct ThrowComparison {
+    /// Wetted radius with the jets at ω = 0, m.
+    pub at_rest_m: f64,
+    /// Wetted radius with the jets at the operating point, m.
+    pub running_m: f64,
+    /// Change from rest to running, % of the throw at rest (negative: shorter).
+    pub change_percent: f64,
+}
+
+/// Compares the wetted radius of jets computed at rest (`at_rest`, ω = 0) and
+/// at speed (`running`): the throw a reaction rotor gives up by turning.
+pub fn throw_at_rest_and_running(
+    at_rest: &[JetExit],
+    running: &[JetExit],
+    spec: &SpraySpec,
+    env: &FlightEnv,
+    opts: &PatternOptions,
+) -> Result<ThrowComparison, ThrowError> {
+    validate_options(opts)?;
+    let rest = super::spray::wetted_radius_m(at_rest, spec, env, &opts.flight, opts.scale)?;
+    let run = super::spray::wetted_radius_m(running, spec, env, &opts.flight, opts.scale)?;
+    Ok(ThrowComparison {
+        at_rest_m: rest,
+        running_m: run,
+        change_percent: if rest > 0.0 {
+            100.0 * (run - rest) / rest
+        } else {
+            0.0
+        },
+    })
+}
+
+/// Flight paths of one nozzle's largest, median and small drops, for drawing.
+#[derive(Debug, Clone, PartialEq)]
+pub struct NozzlePaths {
+    /// The largest drop.
+    pub largest: FlightPath,
+    /// The volume-median drop.
+    pub median: FlightPath,
+    /// The small drop.
+    pub small: FlightPath,
+}
+
+/// Flight paths (each `samples` points) of the drops named in a nozzle's throw.
+pub fn nozzle_paths(
+    jet: &JetExit,
+    throw: &NozzleThrow,
+    env: &FlightEnv,
+    flight: &FlightOptions,
+    samples: usize,
+) -> Result<NozzlePaths, ThrowError> {
+    let still = env.still();
+    Ok(NozzlePaths {
+        largest: flight_path(jet, throw.spectrum.largest_m, &still, flight, samples)?,
+        median: flight_path(jet, throw.median_drop_m, &still, flight, samples)?,
+        small: flight_path(jet, throw.small_drop_m, &still, flight, samples)?,
+    })
+}
+
+/// A head's 2-D application pattern on a grid of square cells, ground frame,
+/// with the spin axis at (0, 0).
+#[derive(Debug, Clone, PartialEq)]
+pub struct PatternGrid {
+    /// x of the grid's lower-left corner, m.
+    pub x_min_m: f64,
+    /// y of the grid's lower-left corner, m.
+    pub y_min_m: f64,
+    /// Cell size along x, m.
+    pub dx_m: f64,
+    /// Cell size along y, m.
+    pub dy_m: f64,
+    /// Cells along x.
+    pub nx: usize,
+    /// Cells along y.
+    pub ny: usize,
+    /// Rate per cell, mm/h, row by row: index `iy * nx + ix`.
+    pub rate_mm_h: Vec<f64>,
+    /// Total flow the pattern was built from, m³/s.
+    pub flow_m3_s: f64,
+}
+
+impl PatternGrid {
+    /// Rate in cell (`ix`, `iy`), mm/h (0 outside the grid).
+    pub fn cell(&self, ix: usize, iy: usize) -> f64 {
+        if ix >= self.nx || iy >= self.ny {
+            return 0.0;
+        }
+        self.rate_mm_h
+            .get(iy * self.nx + ix)
+            .copied()
+            .unwrap_or(0.0)
+    }
+
+    /// Centre of cell (`ix`, `iy`), m.
+    pub fn cell_centre_m(&self, ix: usize, iy: usize) -> (f64, f64) {
+        (
+            self.x_min_m + (ix as f64 + 0.5) * self.dx_m,
+            self.y_min_m + (iy as f64 + 0.5) * self.dy_m,
+        )
+    }
+
+    /// Rate at (`x_m`, `y_m`), mm/h: bilinear between cell centres, 0 outside.
+    pub fn rate_mm_h_at(&self, x_m: f64, y_m: f64) -> f64 {
+        let fx = (x_m - self.x_min_m) / self.dx_m - 0.5;
+        let fy = (y_m - self.y_min_m) / self.dy_m - 0.5;
+        if !(fx > -1.0 && fy > -1.0 && fx < self.nx as f64 && fy < self.ny as f64) {
+            return 0.0;
+        }
+        let (x0, y0) = (fx.floor(), fy.floor());
+        let (tx, ty) = (fx - x0, fy - y0);
+        let at = |ix: f64, iy: f64| {
+            if ix < 0.0 || iy < 0.0 {
+                0.0
+            } else {
+                self.cell(ix as usize, iy as usize)
+            }
+        };
+        (1.0 - tx) * (1.0 - ty) * at(x0, y0)
+            + tx * (1.0 - ty) * at(x0 + 1.0, y0)
+            + (1.0 - tx) * ty * at(x0, y0 + 1.0)
+            + tx * ty * at(x0 + 1.0, y0 + 1.0)
+    }
+
+    /// Water landing on the grid, m³/s (Σ rate × cell area).
+    pub fn applied_flow_m3_s(&self) -> f64 {
+        self.rate_mm_h.iter().sum::<f64>() / M_S_TO_MM_H * self.dx_m * self.dy_m
+    }
+
+    /// Rates as rows (one `Vec` per y, lowest y first), mm/h.
+    pub fn rows(&self) -> Vec<Vec<f64>> {
+        self.rate_mm_h
+            .chunks(self.nx.max(1))
+            .map(|c| c.to_vec())
+            .collect()
+    }
+
+    /// Farthest distance of any grid corner from the spin axis, m.
+    pub fn reach_m(&self) -> f64 {
+        let xs = [self.x_min_m, self.x_min_m + self.nx as f64 * self.dx_m];
+        let ys = [self.y_min_m, self.y_min_m + self.ny as f64 * self.dy_m];
+        xs.iter()
+            .flat_map(|x| ys.iter().map(move |y| x.hypot(*y)))
+            .fold(0.0, f64::max)
+    }
+
+    /// Adds `volume` (m³/s) at (`x`, `y`) spread over one cell's area.
+    fn deposit(&mut self, x: f64, y: f64, volume: f64) {
+        let fx = (x - self.x_min_m) / self.dx_m - 0.5;
+        let fy = (y - self.y_min_m) / self.dy_m - 0.5;
+        let (x0, y0) = (fx.floor(), fy.floor());
+        let (tx, ty) = (fx - x0, fy - y0);
+        let clamp = |v: f64, n: usize| (v.max(0.0) as usize).min(n.saturating_sub(1));
+        let scale = M_S_TO_MM_H / (self.dx_m * self.dy_m);
+        for (ox, oy, w) in [
+            (0.0, 0.0, (1.0 - tx) * (1.0 - ty)),
+            (1.0, 0.0, tx * (1.0 - ty)),
+            (0.0, 1.0, (1.0 - tx) * ty),
+            (1.0, 1.0, tx * ty),
+        ] {
+            let ix = clamp(x0 + ox, self.nx);
+            let iy = clamp(y0 + oy, self.ny);
+            if let Some(c) = self.rate_mm_h.get_mut(iy * self.nx + ix) {
+                *c += volume * w * scale;
+            }
+        }
+    }
+}
+
+/// Largest number of cells a 2-D pattern grid may have.
+const MAX_GRID_CELLS: usize = 4_000_000;
+
+fn cross(a: Vector2<f64>, b: Vector2<f64>) -> f64 {
+    a.x * b.y - a.y * b.x
+}
+
+/// The 2-D application pattern of one head, with the wind in `env`.
+///
+/// Each flowing jet is swept through `opts.azimuths` time-uniform azimuths
+/// (`JetExit::turned`); every bin edge is flown at each and the water deposited
+/// as described in the module docs. Runs the flights in parallel.
+pub fn windy_pattern(
+    jets: &[JetExit],
+    spec: &SpraySpec,
+    env: &FlightEnv,
+    opts: &PatternOptions,
+) -> Result<PatternGrid, ThrowError> {
+    validate_options(opts)?;
+    if opts.azimuths < 3 {
+        return Err(invalid(
+            "azimuths per turn",
+            opts.azimuths as f64,
+            "at least 3",
+        ));
+    }
+    let flowing: Vec<&JetExit> = jets.iter().filter(|j| flows(j)).collect();
+    if flowing.is_empty() {
+        return Err(no_flow());
+    }
+    let spectra = flowing
+        .iter()
+        .map(|jet| Spectrum::for_jet(spec, jet, &env.still(), opts.bins, opts.scale))
+        .collect::<Result<Vec<_>, ThrowError>>()?;
+    let n_az = opts.azimuths;
+    // landings[j][k][e]: jet j, azimuth k, bin edge e.
+    let tasks: Vec<(usize, usize)> = (0..flowing.len())
+        .flat_map(|j| (0..n_az).map(move |k| (j, k)))
+        .collect();
+    let flown = tasks
+        .par_iter()
+        .map(|&(j, k)| {
+            let (jet, spectrum) = match (flowing.get(j), spectra.get(j)) {
+                (Some(jet), Some(s)) => (jet, s),
+                _ => return Ok(Vec::new()),
+            };
+            let turned = jet.turned(2.0 * PI * k as f64 / n_az as f64);
+            spectrum
+                .edges_m()
+                .iter()
+                .map(|&d| {
+                    fly_jet(&turned, d, env, &opts.flight)
+                        .map(|l| Vector2::new(l.point_m.x, l.point_m.y))
+                })
+                .collect::<Result<Vec<Vector2<f64>>, ThrowError>>()
+        })
+        .collect::<Result<Vec<Vec<Vector2<f64>>>, ThrowError>>()?;
+    let landings: Vec<&[Vec<Vector2<f64>>]> = flown.chunks(n_az).collect();
+
+    // Grid extent.
+    let (mut lo, mut hi) = (
+        Vector2::new(f64::INFINITY, f64::INFINITY),
+        Vector2::new(f64::NEG_INFINITY, f64::NEG_INFINITY),
+    );
+    for p in flown.iter().flatten() {
+        lo = lo.inf(p);
+        hi = hi.sup(p);
+    }
+    let span = (hi - lo).max().max(1e-2);
+    let mut cell = match opts.cell_m {
+        Some(c) => require_positive("pattern cell size (m)", c)?,
+        None => span / AUTO_CELLS,
+    };
+    let count = |cell: f64| ((hi.x - lo.x) / cell).ceil() as usize + 4;
+    while count(cell) * (((hi.y - lo.y) / cell).ceil() as usize + 4) > MAX_GRID_CELLS {
+        cell *= 1.5;
+    }
+    let nx = count(cell);
+    let ny = ((hi.y - lo.y) / cell).ceil() as usize + 4;
+    let total: f64 = flowing.iter().map(|j| j.flow_m3_s).sum();
+    let mut grid = PatternGrid {
+        x_min_m: lo.x - 2.0 * cell,
+        y_min_m: lo.y - 2.0 * cell,
+        dx_m: cell,
+        dy_m: cell,
+        nx,
+        ny,
+        rate_mm_h: vec![0.0; nx * ny],
+        flow_m3_s: total,
+    };
+
+    let mut weights = Vec::new();
+    for ((jet, spectrum), rows) in flowing.iter().zip(&spectra).zip(&landings) {
+        let per_az = jet.flow_m3_s / n_az as f64;
+        for k in 0..n_az {
+            let (Some(a), Some(b)) = (rows.get(k), rows.get((k + 1) % n_az)) else {
+                continue;
+            };
+            for (e, bin) in spectrum.bins.iter().enumerate() {
+                let volume = per_az * bin.volume_fraction;
+                if volume <= 0.0 {
+                    continue;
+                }
+                let (Some(&p00), Some(&p10), Some(&p01), Some(&p11)) =
+                    (a.get(e), a.get(e + 1), b.get(e), b.get(e + 1))
+                else {
+                    continue;
+                };
+                // u along drop size (p00 → p10), v along azimuth (p00 → p01).
+                let len_u = (p10 - p00).norm().max((p11 - p01).norm());
+                let len_v = (p01 - p00).norm().max((p11 - p10).norm());
+                let nu = ((len_u / (0.5 * cell)).ceil() as usize).clamp(1, 32);
+                let nv = ((len_v / (0.5 * cell)).ceil() as usize).clamp(1, 64);
+                weights.clear();
+                let mut sum = 0.0;
+                for iu in 0..nu {
+                    let u = (iu as f64 + 0.5) / nu as f64;
+                    for iv in 0..nv {
+                        let v = (iv as f64 + 0.5) / nv as f64;
+                        let du = (p10 - p00) * (1.0 - v) + (p11 - p01) * v;
+                        let dv = (p01 - p00) * (1.0 - u) + (p11 - p10) * u;
+                        let jac = cross(du, dv).abs();
+                        let point = p00 * ((1.0 - u) * (1.0 - v))
+                            + p10 * (u * (1.0 - v))
+                            + p01 * ((1.0 - u) * v)
+                            + p11 * (u * v);
+                        weights.push((point, jac));
+                        sum += jac;
+                    }
+                }
+                let equal = sum.is_nan() || sum <= 1e-12 * cell * cell;
+                let n = weights.len() as f64;
+                for &(point, jac) in &weights {
+                    let w = if equal { 1.0 / n } else { jac / sum };
+                    grid.deposit(point.x, point.y, volume * w);
+                }
+            }
+        }
+    }
+    Ok(grid)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::physics::design::Wind;
+    use crate::physics::fluid::{AirProps, WaterProps};
+    use nalgebra::Vector3;
+
+    fn env(wind_m_s: f64) -> FlightEnv {
+        FlightEnv::new(
+            &AirProps::at(20.0, 0.0),
+            &WaterProps::at(20.0),
+            &Wind {
+                speed_m_s: wind_m_s,
+                from_rad: 0.3,
+            },
+        )
+    }
+
+    fn jets() -> Vec<JetExit> {
+        let a = JetExit {
+            position_m: Vector3::new(0.16, 0.0, 0.35),
+            velocity_m_s: Vector3::new(5.0, -13.0, 7.0),
+            flow_m3_s: 1.2e-4,
+            nozzle_diameter_m: 2.4e-3,
+            nozzle_pressure_pa: 2.8e5,
+        };
+        vec![a, a.turned(PI)]
+    }
+
+    #[test]
+    fn profile_holds_all_the_water() {
+        let r = radial_pattern(
+            &jets(),
+            &SpraySpec::default(),
+            &env(0.0),
+            3.0,
+            &PatternOptions::default(),
+        )
+        .unwrap();
+        let applied = r.profile.applied_flow_m3_s();
+        assert!((applied / r.total_flow_m3_s - 1.0).abs() < 1e-9);
+        assert!((r.total_flow_m3_s - 2.4e-4).abs() < 1e-15);
+        assert!(r.wetted_radius_m > 5.0);
+        assert!((r.profile.outer_radius_m() - r.wetted_radius_m).abs() < MIN_RING_WIDTH_M);
+        let peak = r.profile.peak().unwrap();
+        let expect = peak.rate_mm_h / 3600.0 * 2.0 * PI / 3.0;
+        assert!((r.peak_depth_per_turn_mm.unwrap() - expect).abs() < 1e-12);
+        // Larger drops go farther.
+        let t = r.nozzles[0].as_ref().unwrap();
+        assert!(t.throw_small_m < t.throw_median_m && t.throw_median_m < t.throw_largest_m);
+    }
+
+    #[test]
+    fn non_flowing_jets_are_skipped() {
+        let mut js = jets();
+        js[1].flow_m3_s = 0.0;
+        let r = radial_pattern(
+            &js,
+            &SpraySpec::default(),
+            &env(0.0),
+            0.0,
+            &PatternOptions::default(),
+        )
+        .unwrap();
+        assert!(r.nozzles[1].is_none());
+        assert!(r.peak_depth_per_turn_mm.is_none());
+        js[0].flow_m3_s = 0.0;
+        assert!(radial_pattern(
+            &js,
+            &SpraySpec::default(),
+            &env(0.0),
+            0.0,
+            &PatternOptions::default()
+        )
+        .is_err());
+    }
+
+    #[test]
+    fn calm_grid_matches_the_radial_profile() {
+        let opts = PatternOptions {
+            bins: 20,
+            azimuths: 72,
+            ..PatternOptions::default()
+        };
+        let e = env(0.0);
+        let grid = windy_pattern(&jets(), &SpraySpec::default(), &e, &opts).unwrap();
+        let prof = radial_pattern(&jets(), &SpraySpec::default(), &e, 1.0, &opts)
+            .unwrap()
+            .profile;
+        assert!((grid.applied_flow_m3_s() / grid.flow_m3_s - 1.0).abs() < 1e-9);
+        // Ring-averaged grid rate against the profile between 30 % and 80 % of the radius.
+        let outer = prof.outer_radius_m();
+        let (mut g_sum, mut p_sum) = (0.0, 0.0);
+        for iy in 0..grid.ny {
+            for ix in 0..grid.nx {
+                let (x, y) = grid.cell_centre_m(ix, iy);
+                let r = x.hypot(y);
+                if r > 0.3 * outer && r < 0.8 * outer {
+                    g_sum += grid.cell(ix, iy);
+                    p_sum += prof.rate_mm_h_at(r);
+                }
+            }
+        }
+        assert!((g_sum / p_sum - 1.0).abs() < 0.03, "{}", g_sum / p_sum);
+    }
+
+    #[test]
+    fn wind_shifts_the_pattern_downwind_and_keeps_the_water() {
+        let opts = PatternOptions {
+            bins: 12,
+            azimuths: 36,
+            ..PatternOptions::default()
+        };
+        let e = env(3.0);
+        let grid = windy_pattern(&jets(), &SpraySpec::default(), &e, &opts).unwrap();
+        assert!((grid.applied_flow_m3_s() / grid.flow_m3_s - 1.0).abs() < 1e-9);
+        // Centroid of the water moves with the wind.
+        let (mut cx, mut cy, mut m) = (0.0, 0.0, 0.0);
+        for iy in 0..grid.ny {
+            for ix in 0..grid.nx {
+                let (x, y) = grid.cell_centre_m(ix, iy);
+                let w = grid.cell(ix, iy);
+                cx += w * x;
+                cy += w * y;
+                m += w;
+            }
+        }
+        let c = Vector2::new(cx / m, cy / m);
+        let wind = e.wind_m_s.xy().normalize();
+        assert!(c.dot(&wind) > 0.3, "{c:?}");
+    }
+}
