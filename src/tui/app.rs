@@ -34,19 +34,33 @@ pub const TABLE_POINTS: usize = 41;
 
 /// Top speed of the Balance chart and table, rad/s: twice the highest
 /// equilibrium (so the operating point sits mid-chart and a far-off runaway
-/// does not squash it), or the full table range when there is none.
-pub fn balance_top_speed(report: &SpinReport) -> f64 {
+/// does not squash it); without one, the speed at which the tips reach 10 m/s.
+pub fn balance_top_speed(report: &SpinReport, design: &Design) -> f64 {
     let full = table_top_speed(report);
     match report.equilibria.last() {
         Some(e) if e.omega_rad_s > 0.0 => (2.0 * e.omega_rad_s).min(full.max(e.omega_rad_s * 1.2)),
-        _ => full,
+        _ => {
+            // No equilibrium to centre on: stop where the tips reach 10 m/s,
+            // well past any working speed (common practice: tips run a few m/s).
+            let r_max = design
+                .rotor
+                .arms
+                .iter()
+                .map(|a| a.radius_m)
+                .fold(0.0, f64::max);
+            if r_max > 0.0 {
+                full.min(10.0 / r_max)
+            } else {
+                full
+            }
+        }
     }
 }
 
 /// Drive and resisting torque from rest to [`balance_top_speed`], `points` rows.
 pub fn balance_table(design: &Design, report: &SpinReport, points: usize) -> Vec<TableRow> {
     let model = SpinModel::new(design);
-    let top = balance_top_speed(report);
+    let top = balance_top_speed(report, design);
     let n = points.max(2);
     (0..n)
         .map(|k| model.point(top * k as f64 / (n - 1) as f64))
