@@ -647,7 +647,8 @@ pub fn from_display(dim: Dimension, shown: f64, system: UnitSystem) -> f64 {
 
 /// A number with a sensible precision for a reading: three significant
 /// figures, but never rounding away digits left of the decimal point
-/// (`280`, `1250`, `40.6`, `2.80`, `0.0200`). Non-finite values show as `n/a`.
+/// (`280`, `1250`, `40.6`, `2.80`, `0.0200`); below 10⁻⁴ or from 10⁹ up,
+/// e-notation (`2.00e-5`). Non-finite values show as `n/a`.
 pub fn format_number(value: f64) -> String {
     if !value.is_finite() {
         return "n/a".to_string();
@@ -656,6 +657,10 @@ pub fn format_number(value: f64) -> String {
         return "0".to_string();
     }
     let magnitude = value.abs().log10().floor();
+    if !(-4.0..9.0).contains(&magnitude) {
+        // Far from everyday sizes: three significant figures in e-notation.
+        return format!("{value:.2e}");
+    }
     let decimals = if magnitude >= 2.0 {
         0
     } else {
@@ -884,6 +889,9 @@ mod tests {
         assert_eq!(format_number(99.96), "100");
         assert_eq!(format_number(9.996), "10.0");
         assert_eq!(format_number(0.0), "0");
+        assert_eq!(format_number(2e-5), "2.00e-5");
+        assert_eq!(format_number(-1.5e10), "-1.50e10");
+        assert_eq!(format_number(0.000_123_4), "0.000123");
         assert_eq!(unit_label(D::Flow, us), "gpm");
         assert_eq!(unit_label(D::Inertia, m), "kg·m²");
     }

@@ -361,3 +361,67 @@ fn saving_a_design_and_loading_it_again() {
         "saved in US units"
     );
 }
+
+#[test]
+fn the_interface_example_and_each_documented_alternative_load() {
+    // interface.md, "Scenario files": the example and the alternatives its
+    // comments name.
+    let path = root().join("tests/fixtures/interface-example.ron");
+    let text = std::fs::read_to_string(&path).unwrap();
+    let d = load_str(&text, "interface example")
+        .unwrap_or_else(|e| panic!("{e}"))
+        .to_design()
+        .unwrap();
+    assert_eq!(d.supply, Supply::Pressure { inlet_pa: 280e3 });
+    assert_eq!(d.layout, Some(Layout::Square { spacing_m: 9.0 }));
+
+    let alternatives: &[(&str, &str)] = &[
+        ("Pressure(kPa(280))", "Flow(L_min(12))"),
+        (
+            "Pressure(kPa(280))",
+            "Line(source: kPa(400), length: m(15), bore: mm(16), roughness: mm(0.0015), minor_k: 2.0, lift: m(0.5))",
+        ),
+        (
+            "Estimate(tube_density: kg_m3(8500), tube_wall: mm(0.8), tip_mass: g(6))",
+            "Given(kg_m2(0.0012))",
+        ),
+        (
+            "Washer(mu_kinetic: 0.10, mu_static: 0.15, inner: mm(4), outer: mm(8),\n                        thrust_area: mm2(110), rotor_mass: g(180))",
+            "Measured(running: N_m(0.02), breakaway: N_m(0.03))",
+        ),
+        ("Square(spacing: m(9))", "Rectangle(spacing: m(9), rows: m(10))"),
+        ("Square(spacing: m(9))", "Triangle(spacing: m(9))"),
+        (
+            "spray: (d50: Auto, spread: Auto, largest: Auto)",
+            "spray: (d50: mm(1.1), spread: 2.4, largest: mm(4.5))",
+        ),
+        ("height: mm(350),", "height: mm(350), rise: mm(0),"),
+    ];
+    for (from, to) in alternatives {
+        assert!(text.contains(from), "example lacks {from}");
+        let alt = text.replace(from, to);
+        let d = load_str(&alt, "alternative")
+            .unwrap_or_else(|e| panic!("{to}: {e}"))
+            .to_design()
+            .unwrap();
+        match *to {
+            t if t.starts_with("Flow") => {
+                assert_eq!(d.supply, Supply::Flow { total_m3_s: 0.0002 })
+            }
+            t if t.starts_with("Line") => assert!(matches!(d.supply, Supply::Line(_))),
+            t if t.starts_with("Measured") => assert_eq!(
+                d.friction.bearing,
+                Bearing::Measured {
+                    running_n_m: 0.02,
+                    breakaway_n_m: 0.03
+                }
+            ),
+            t if t.starts_with("spray") => {
+                assert_eq!(d.spray.d50_m, Some(0.0011));
+                assert_eq!(d.spray.spread, Some(2.4));
+                assert_eq!(d.spray.largest_m, Some(0.0045));
+            }
+            _ => {}
+        }
+    }
+}

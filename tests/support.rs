@@ -145,14 +145,14 @@ pub fn assert_designs_close(a: &Design, b: &Design, rel: f64) {
     close("brake viscous", f.brake.viscous, g.brake.viscous);
     close("brake quadratic", f.brake.quadratic, g.brake.quadratic);
     close("arm drag cd", f.arm_drag_cd, g.arm_drag_cd);
-    let opt =
-        |what: &str, x: Option<f64>, y: Option<f64>, close: &mut dyn FnMut(&str, f64, f64)| match (
-            x, y,
-        ) {
-            (Some(p), Some(q)) => close(what, p, q),
-            (None, None) => {}
-            (p, q) => panic!("{what}: {p:?} vs {q:?}"),
-        };
+    let opt = |what: &str,
+               x: Option<f64>,
+               y: Option<f64>,
+               close: &mut dyn FnMut(&str, f64, f64)| match (x, y) {
+        (Some(p), Some(q)) => close(what, p, q),
+        (None, None) => {}
+        (p, q) => panic!("{what}: {p:?} vs {q:?}"),
+    };
     opt("d50", a.spray.d50_m, b.spray.d50_m, &mut close);
     opt("spread", a.spray.spread, b.spray.spread, &mut close);
     opt("largest", a.spray.largest_m, b.spray.largest_m, &mut close);

@@ -141,6 +141,8 @@ struct VersionProbe {
 /// name). The format version is checked first, then the syntax and shape,
 /// then every value (see [`Scenario::to_design`]).
 pub fn load_str(text: &str, origin: &str) -> Result<Scenario, ScenarioError> {
+    // Some editors start a file with a byte-order mark; it is not content.
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let options = ron::Options::default();
     if let Ok(VersionProbe {
         version: Some(found),

@@ -510,3 +510,14 @@ fn positions_point_at_the_value_not_the_space_before_it() {
     // Columns count characters, not bytes.
     assert_eq!(next_token("é  x", 1, 2), (1, 4));
 }
+
+#[test]
+fn windows_line_ends_and_a_byte_order_mark_are_fine() {
+    let text = format!("\u{feff}{}", MINIMAL.replace('\n', "\r\n"));
+    assert_eq!(load(&text).unwrap(), load(MINIMAL).unwrap());
+    // Positions still count lines and characters as an editor shows them.
+    let bad = text.replace("cd: 0.96", "cdd: 0.96");
+    let e = err_of(&bad);
+    let (line, column, _, _) = syntax(&e);
+    assert_eq!((line, column), (11, 83), "{e}");
+}
