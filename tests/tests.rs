@@ -1,4 +1,4 @@
-//! The one integration-test binary: outside-reference checks and CLI tests.
+//! The one integration-test binary: outside-reference checks, file and CLI tests.
 mod catch_can_audit;
 mod cli;
 mod engine_properties;
@@ -6,6 +6,9 @@ mod engine_reference;
 mod pattern_conservation;
 mod reference_fluid;
 mod reference_pipe;
+mod scenario_files;
+mod scenario_roundtrip;
+mod support;
 mod throw_rotation;
 mod trajectory_reference;
 mod uniformity_reference;
