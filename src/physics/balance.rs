@@ -299,7 +299,7 @@ impl std::fmt::Display for Warning {
 pub struct OperatingPoint {
     /// Torques and water path at the operating speed.
     pub point: TorquePoint,
-    /// Jets at the exit of every flowing nozzle.
+    /// The jet of every arm, in arm order (zero flow for an idle nozzle).
     pub jets: Vec<JetExit>,
     /// Stability (always true for an operating point found from rest).
     pub stable: bool,

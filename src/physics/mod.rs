@@ -12,9 +12,11 @@
 //! - [`spray`]: drop-size spectrum per nozzle, calibration to a measured throw (M8).
 //! - [`pattern`]: radial application profile and the 2-D pattern in wind (M8).
 //! - [`layout`]: head layouts, overlap, CU / DU and the soil-intake check (M9).
+//! - [`coverage`]: the spin state handed to throw, pattern and layout (M6 → M7–M9).
 //! - [`root`]: bracketed root finding with the bracket kept for reports.
 
 pub mod balance;
+pub mod coverage;
 pub mod design;
 pub mod fixtures;
 pub mod fluid;
