@@ -701,8 +701,8 @@ pub fn windy_pattern(
                 // u along drop size (p00 → p10), v along azimuth (p00 → p01).
                 let len_u = (p10 - p00).norm().max((p11 - p01).norm());
                 let len_v = (p01 - p00).norm().max((p11 - p10).norm());
-                let nu = ((len_u / (0.5 * cell)).ceil() as usize).clamp(1, 32);
-                let nv = ((len_v / (0.5 * cell)).ceil() as usize).clamp(1, 64);
+                let nu = ((len_u / cell).ceil() as usize).clamp(1, 32);
+                let nv = ((len_v / cell).ceil() as usize).clamp(1, 64);
                 weights.clear();
                 let mut sum = 0.0;
                 for iu in 0..nu {
