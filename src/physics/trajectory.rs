@@ -809,7 +809,7 @@ pub fn flight_path(
         } else if i == last {
             landing.point_m
         } else {
-            while idx + 1 < steps.len() && steps[idx].t0 + steps[idx].h < t {
+            while idx + 1 < steps.len() && steps.get(idx).is_some_and(|s| s.t0 + s.h < t) {
                 idx += 1;
             }
             match steps.get(idx) {
