@@ -279,3 +279,131 @@ fn no_command_without_a_terminal_prints_the_example_report() {
         .success()
         .stdout(predicate::str::contains("rpm"));
 }
+
+#[test]
+fn throw_reports_keys_profile_and_calibration() {
+    let file = scenario("lawn-rotor.ron");
+    let out = bin()
+        .args(["throw", file.to_str().unwrap(), "--format", "json"])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    // interface.md, "Other commands' JSON", throw.
+    for k in [
+        "wetted_radius_m",
+        "throw_at_rest_m",
+        "nozzles",
+        "profile",
+        "peak_depth_per_turn_mm",
+        "calibration_scale",
+    ] {
+        assert!(v.get(k).is_some(), "throw.{k}");
+    }
+    let n = &v["nozzles"][0];
+    for k in ["largest", "median", "small"] {
+        assert!(n["throw_m"][k].as_f64().unwrap() > 0.0, "throw_m.{k}");
+    }
+    assert!(n["d50_m"].as_f64().unwrap() < n["largest_drop_m"].as_f64().unwrap());
+    assert_eq!(v["calibration_scale"], 1.0);
+    let wetted = v["wetted_radius_m"].as_f64().unwrap();
+    // Rotation costs throw (model.md M7).
+    assert!(wetted < v["throw_at_rest_m"].as_f64().unwrap());
+    // Calibrate to a tape-measure reading 10 % shorter: the model then matches it.
+    let measured = format!("{:.3}m", 0.9 * wetted);
+    let out = bin()
+        .args([
+            "throw",
+            file.to_str().unwrap(),
+            "--format",
+            "json",
+            "--measured",
+            &measured,
+        ])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let c: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert!((c["wetted_radius_m"].as_f64().unwrap() / (0.9 * wetted) - 1.0).abs() < 2e-3);
+    assert!(c["calibration_scale"].as_f64().unwrap() < 1.0);
+    bin()
+        .args(["throw", file.to_str().unwrap(), "--measured", "7.5 parsecs"])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("--measured"));
+}
+
+#[test]
+fn layout_reports_uniformity_and_the_grid() {
+    let file = scenario("lawn-rotor.ron");
+    let out = bin()
+        .args(["layout", file.to_str().unwrap(), "--format", "json"])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    for k in [
+        "pattern",
+        "spacing_m",
+        "rows_m",
+        "mean_rate_mm_h",
+        "expected_rate_mm_h",
+        "cu_percent",
+        "du_lq_percent",
+        "du_lh_percent",
+        "scheduling_multiplier",
+        "spacing_percent_of_diameter",
+        "grid",
+    ] {
+        assert!(v.get(k).is_some(), "layout.{k}");
+    }
+    assert_eq!(v["pattern"], "square");
+    // The layout mean equals Q/(S·L) within 1 % (model.md M9).
+    let (mean, expected) = (
+        v["mean_rate_mm_h"].as_f64().unwrap(),
+        v["expected_rate_mm_h"].as_f64().unwrap(),
+    );
+    assert!((mean / expected - 1.0).abs() < 0.01, "{mean} vs {expected}");
+    assert!(v["grid"]["rate_mm_h"].as_array().unwrap().len() > 10);
+    // Text: a depth map with a legend in mm/h; an intake rate below the mean warns.
+    bin()
+        .args(["layout", file.to_str().unwrap(), "--intake", "5mm/h"])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("mm/h"))
+        .stdout(predicate::str::contains("█"))
+        .stdout(predicate::str::contains("soak"));
+    // Overrides and the measured catch cans.
+    let cans = scenario("catch-cans-example.csv");
+    bin()
+        .args([
+            "layout",
+            file.to_str().unwrap(),
+            "--pattern",
+            "triangle",
+            "--spacing",
+            "30ft",
+            "--catch-cans",
+            cans.to_str().unwrap(),
+        ])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("triangle"))
+        .stdout(predicate::str::contains("Measured catch cans"));
+    bin()
+        .args(["layout", file.to_str().unwrap(), "--spacing", "-3m"])
+        .assert()
+        .code(2);
+}
