@@ -5,6 +5,7 @@
 //! problem worth a script's attention (stalls, no equilibrium); 2 bad input,
 //! with a message naming the file, line and field or the argument.
 
+mod inverse;
 mod layout;
 mod solve;
 mod table;
@@ -87,6 +88,87 @@ pub enum Command {
         /// Measured catch-can test (CSV) to rate beside the model.
         #[arg(long, value_name = "CSV")]
         catch_cans: Option<PathBuf>,
+        /// Format and units of the report.
+        #[command(flatten)]
+        out: Output,
+    },
+    /// Field check: measured pressure and rotation against the design.
+    Check {
+        /// The scenario file of the unit's design.
+        file: PathBuf,
+        /// Measured inlet pressure (e.g. 2.8bar, 40psi).
+        #[arg(long)]
+        pressure: String,
+        /// Measured speed, rpm.
+        #[arg(long)]
+        rpm: Option<f64>,
+        /// Time of one turn (e.g. 1.5s).
+        #[arg(long)]
+        seconds_per_turn: Option<String>,
+        /// Turns counted over --over TIME.
+        #[arg(long)]
+        turns: Option<f64>,
+        /// Time of the counted turns, then of the caught volume (e.g. 14.2s).
+        #[arg(long, action = clap::ArgAction::Append)]
+        over: Vec<String>,
+        /// Measured total flow (e.g. 12L/min, 3.2gpm).
+        #[arg(long)]
+        flow: Option<String>,
+        /// Volume caught in a bucket over --over TIME (e.g. 5L).
+        #[arg(long)]
+        caught: Option<String>,
+        /// Measured wetted radius (e.g. 7.5m).
+        #[arg(long)]
+        throw: Option<String>,
+        /// Stopwatch resolution (default 0.2s).
+        #[arg(long)]
+        stopwatch: Option<String>,
+        /// CSV without its header line, for appending to a log.
+        #[arg(long)]
+        no_header: bool,
+        /// Format and units of the report.
+        #[command(flatten)]
+        out: Output,
+    },
+    /// Find the design value that gives a target speed or wetted radius.
+    Target {
+        /// The scenario file.
+        file: PathBuf,
+        /// Wanted operating speed, rpm.
+        #[arg(long)]
+        rpm: Option<f64>,
+        /// Wanted wetted radius (e.g. 8m).
+        #[arg(long)]
+        throw: Option<String>,
+        /// What to adjust: deflection, elevation, radius, nozzle, viscous, quadratic (brake: viscous).
+        #[arg(long)]
+        adjust: String,
+        /// Write the adjusted scenario here (an existing file is kept as .bak).
+        #[arg(long)]
+        out: Option<PathBuf>,
+        /// Format and units of the report.
+        #[command(flatten)]
+        output: Output,
+    },
+    /// Sweep one or two parameters: --vary NAME=FROM:TO:STEPS.
+    Sweep {
+        /// The scenario file.
+        file: PathBuf,
+        /// A parameter and its range, e.g. deflection=0:60:13 or pressure=150kPa:400kPa:6.
+        #[arg(long, required = true)]
+        vary: Vec<String>,
+        /// Also rate the scenario's layout at each point (CU).
+        #[arg(long)]
+        layout: bool,
+        /// Format and units of the report.
+        #[command(flatten)]
+        out: Output,
+    },
+    /// Scenarios side by side: inputs that differ, key results, deltas.
+    Compare {
+        /// Two or more scenario files; the first is the reference.
+        #[arg(required = true, num_args = 2..)]
+        files: Vec<PathBuf>,
         /// Format and units of the report.
         #[command(flatten)]
         out: Output,
@@ -238,6 +320,62 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             };
             layout::run(&file, &args, o, out)
         }
+        Command::Check {
+            file,
+            pressure,
+            rpm,
+            seconds_per_turn,
+            turns,
+            over,
+            flow,
+            caught,
+            throw,
+            stopwatch,
+            no_header,
+            out: o,
+        } => {
+            let args = inverse::CheckArgs {
+                pressure,
+                rpm,
+                seconds_per_turn,
+                turns,
+                over,
+                flow,
+                caught,
+                throw,
+                stopwatch,
+                no_header,
+            };
+            inverse::run_check(&file, &args, o, out)
+        }
+        Command::Target {
+            file,
+            rpm,
+            throw,
+            adjust,
+            out: written,
+            output,
+        } => {
+            let adjust = if adjust == "brake" {
+                "viscous".to_string()
+            } else {
+                adjust
+            };
+            let args = inverse::TargetArgs {
+                rpm,
+                throw,
+                adjust,
+                out: written,
+            };
+            inverse::run_target(&file, &args, output, out)
+        }
+        Command::Sweep {
+            file,
+            vary,
+            layout,
+            out: o,
+        } => inverse::run_sweep(&file, &vary, layout, o, out),
+        Command::Compare { files, out: o } => inverse::run_compare(&files, o, out),
         Command::New { file, units, force } => new_scenario(&file, units.into(), force, out),
     }
 }
