@@ -5,8 +5,8 @@
 //! with the wetted radius (throw) at every point included.
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use spinwright::physics::fixtures::three_arm_rotor;
 use spinwright::physics::coverage::wetted_radius_m;
+use spinwright::physics::fixtures::three_arm_rotor;
 use spinwright::physics::study::{sweep, sweep_with, Parameter, SweepAxis};
 use std::hint::black_box;
 use std::time::Duration;

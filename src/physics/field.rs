@@ -46,7 +46,7 @@
 //! choices). Findings are ranked by that ratio; above 1 is a fault. Readings
 //! above 552 kPa (80 psi) call for a regulator (common practice: plumbing codes).
 
-use super::balance::{rad_s, rpm, solve, SpinModel, SpinReport, SpinStatus};
+use super::balance::{rad_s, rpm, solve, solve_speed, SpinModel, SpinReport, SpinStatus};
 use super::design::{Bearing, Design, Supply};
 use super::root::{brent, Tolerance};
 use super::target::ThrowFn;
@@ -694,7 +694,9 @@ fn implied_friction(
         |r: f64| balance_friction(nominal, rad_s(r)).map(|(_, _, d)| bearing_torque(&d, rad_s(r)));
     let a = band_torque(band_rpm[0]).unwrap_or(implied);
     let b = band_torque(band_rpm[1]).unwrap_or(implied);
-    let model_rpm = solve(&adjusted).operating.map(|op| rpm(op.omega_rad_s()));
+    let model_rpm = solve_speed(&adjusted)
+        .operating
+        .map(|op| rpm(op.omega_rad_s()));
     let (implied_mu, design_mu) = match (knob, nominal.friction.bearing) {
         (Knob::MuKinetic, Bearing::Washer(w)) => (Some(x), Some(w.mu_kinetic)),
         (_, Bearing::Washer(w)) => (None, Some(w.mu_kinetic)),
@@ -893,7 +895,7 @@ pub fn check(
     };
     let as_found_nozzle_rpm = (scale != 1.0)
         .then(|| {
-            solve(&nozzles_found)
+            solve_speed(&nozzles_found)
                 .operating
                 .map(|op| rpm(op.omega_rad_s()))
         })

@@ -23,7 +23,7 @@ use std::sync::atomic::{AtomicUsize, Ordering};
 
 use rayon::prelude::*;
 
-use super::balance::{rpm, solve, SpinReport, SpinStatus};
+use super::balance::{rpm, solve, solve_speed, SpinReport, SpinStatus};
 use super::design::{Bearing, Design, Inertia, Layout, Supply, WasherRule};
 
 /// A design number that a sweep, a comparison or a target search can vary (SI).
@@ -617,7 +617,7 @@ fn sweep_point<E>(
             };
         }
     }
-    let report = solve(&point);
+    let report = solve_speed(&point);
     let (rpm_op, start_margin, flow) = summarize(&report);
     SweepRow {
         values,

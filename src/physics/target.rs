@@ -20,7 +20,7 @@
 
 use rayon::prelude::*;
 
-use super::balance::{rad_s, rpm, solve, SpinReport};
+use super::balance::{rad_s, rpm, solve, solve_speed, SpinReport};
 use super::design::Design;
 use super::root::{brent, RootError, Tolerance};
 use super::study::{Parameter, ParameterError};
@@ -134,7 +134,7 @@ impl Adjust {
                     .collect(),
             ),
             Adjust::Viscous | Adjust::Quadratic => {
-                let stall = solve(design).stall_torque_n_m.max(1e-9);
+                let stall = solve_speed(design).stall_torque_n_m.max(1e-9);
                 let w1 = rad_s(1.0);
                 let top = if self == Adjust::Viscous {
                     stall / w1
@@ -220,7 +220,7 @@ impl Goal<'_> {
 
     fn metric(&self, design: &Design) -> Option<f64> {
         match self {
-            Goal::Rpm(_) => solve(design)
+            Goal::Rpm(_) => solve_speed(design)
                 .operating
                 .map(|op| rpm(op.omega_rad_s()))
                 .filter(|r| r.is_finite()),
