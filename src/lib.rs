@@ -7,10 +7,12 @@
 //!   [`physics::design::Design`], writing a design back, and safe saving.
 //! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
 //! - [`cli`]: the command line, a thin layer over the above.
+//! - [`crash`]: the panic hook: terminal restored, crash report written.
 #![warn(missing_docs)]
 
 pub mod audit;
 pub mod cli;
+pub mod crash;
 pub mod physics;
 pub mod scenario;
 pub mod units;

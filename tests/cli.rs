@@ -653,3 +653,21 @@ fn compare_lists_differences_and_deltas() {
         .assert()
         .code(2);
 }
+
+#[test]
+fn a_crash_writes_a_report_and_says_where() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = bin()
+        .env("SPINWRIGHT_DELIBERATE_PANIC", "1")
+        .env("TMPDIR", dir.path())
+        .args(["solve", scenario("lawn-rotor.ron").to_str().unwrap()])
+        .output()
+        .unwrap();
+    assert!(!out.status.success());
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert!(stderr.contains("crash report was written to"), "{stderr}");
+    let reports: Vec<_> = std::fs::read_dir(dir.path()).unwrap().filter_map(Result::ok).collect();
+    assert_eq!(reports.len(), 1);
+    let text = std::fs::read_to_string(reports[0].path()).unwrap();
+    assert!(text.contains("deliberate panic"));
+}
