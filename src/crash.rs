@@ -11,11 +11,17 @@ use std::panic::PanicHookInfo;
 use std::path::PathBuf;
 
 /// Write a crash report for `info` into `folder`; returns its path.
-pub fn write_report(info: &PanicHookInfo<'_>, folder: &std::path::Path) -> std::io::Result<PathBuf> {
+pub fn write_report(
+    info: &PanicHookInfo<'_>,
+    folder: &std::path::Path,
+) -> std::io::Result<PathBuf> {
     let stamp = std::time::SystemTime::now()
         .duration_since(std::time::UNIX_EPOCH)
         .map_or(0, |d| d.as_secs());
-    let path = folder.join(format!("spinwright-crash-{stamp}-{}.txt", std::process::id()));
+    let path = folder.join(format!(
+        "spinwright-crash-{stamp}-{}.txt",
+        std::process::id()
+    ));
     let mut file = std::fs::File::create(&path)?;
     let message = info
         .payload()
@@ -23,14 +29,27 @@ pub fn write_report(info: &PanicHookInfo<'_>, folder: &std::path::Path) -> std::
         .map(|s| (*s).to_string())
         .or_else(|| info.payload().downcast_ref::<String>().cloned())
         .unwrap_or_else(|| "(no message)".to_string());
-    let location = info
-        .location()
-        .map_or_else(|| "unknown".to_string(), |l| format!("{}:{}:{}", l.file(), l.line(), l.column()));
-    writeln!(file, "spinwright {} crash report", env!("CARGO_PKG_VERSION"))?;
+    let location = info.location().map_or_else(
+        || "unknown".to_string(),
+        |l| format!("{}:{}:{}", l.file(), l.line(), l.column()),
+    );
+    writeln!(
+        file,
+        "spinwright {} crash report",
+        env!("CARGO_PKG_VERSION")
+    )?;
     writeln!(file, "message: {message}")?;
     writeln!(file, "location: {location}")?;
-    writeln!(file, "arguments: {:?}", std::env::args().collect::<Vec<_>>())?;
-    writeln!(file, "backtrace:\n{}", std::backtrace::Backtrace::force_capture())?;
+    writeln!(
+        file,
+        "arguments: {:?}",
+        std::env::args().collect::<Vec<_>>()
+    )?;
+    writeln!(
+        file,
+        "backtrace:\n{}",
+        std::backtrace::Backtrace::force_capture()
+    )?;
     file.sync_all()?;
     Ok(path)
 }

@@ -666,7 +666,10 @@ fn a_crash_writes_a_report_and_says_where() {
     assert!(!out.status.success());
     let stderr = String::from_utf8_lossy(&out.stderr);
     assert!(stderr.contains("crash report was written to"), "{stderr}");
-    let reports: Vec<_> = std::fs::read_dir(dir.path()).unwrap().filter_map(Result::ok).collect();
+    let reports: Vec<_> = std::fs::read_dir(dir.path())
+        .unwrap()
+        .filter_map(Result::ok)
+        .collect();
     assert_eq!(reports.len(), 1);
     let text = std::fs::read_to_string(reports[0].path()).unwrap();
     assert!(text.contains("deliberate panic"));
