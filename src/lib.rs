@@ -8,10 +8,12 @@
 //! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
 //! - [`cli`]: the command line, a thin layer over the above.
 //! - [`tui`]: the terminal interface, the other thin layer (the only terminal code).
+//! - [`crash`]: the panic hook: terminal restored, crash report written.
 #![warn(missing_docs)]
 
 pub mod audit;
 pub mod cli;
+pub mod crash;
 pub mod physics;
 pub mod scenario;
 pub mod tui;

@@ -221,7 +221,9 @@ impl fmt::Display for Dimension {
 
 /// A unit: how to write it, how to read it, and how to reach SI.
 ///
-/// `si = value · scale + offset`.
+/// `si = (value − zero) · num / den`: multiplying by an exact `num` or dividing
+/// by an exact `den` keeps round values exact (`mm(2.4)` is 0.0024 m, not
+/// 0.002 400 000 000 000 000 2; 122 °F is 50 °C, not 50.000 000 000 000 01).
 struct UnitDef {
     dim: Dimension,
     /// Label shown after a number.
@@ -229,22 +231,52 @@ struct UnitDef {
     /// Spellings accepted when parsing, already in canonical form (see
     /// [`canonical_unit`]); the first is the one listed in messages.
     aliases: &'static [&'static str],
-    scale: f64,
-    offset: f64,
+    num: f64,
+    den: f64,
+    zero: f64,
 }
 
 const fn unit(
     dim: Dimension,
     label: &'static str,
     aliases: &'static [&'static str],
-    scale: f64,
+    num: f64,
 ) -> UnitDef {
     UnitDef {
         dim,
         label,
         aliases,
-        scale,
-        offset: 0.0,
+        num,
+        den: 1.0,
+        zero: 0.0,
+    }
+}
+
+/// A unit that is an exact fraction of the SI unit: `si = value / den`.
+const fn unit_div(
+    dim: Dimension,
+    label: &'static str,
+    aliases: &'static [&'static str],
+    den: f64,
+) -> UnitDef {
+    unit_ratio(dim, label, aliases, 1.0, den)
+}
+
+/// A unit that is `num / den` SI units.
+const fn unit_ratio(
+    dim: Dimension,
+    label: &'static str,
+    aliases: &'static [&'static str],
+    num: f64,
+    den: f64,
+) -> UnitDef {
+    UnitDef {
+        dim,
+        label,
+        aliases,
+        num,
+        den,
+        zero: 0.0,
     }
 }
 
@@ -255,8 +287,8 @@ use Dimension as D;
 static UNITS: &[UnitDef] = &[
     // Length
     unit(D::Length, "m", &["m"], 1.0),
-    unit(D::Length, "mm", &["mm"], 1.0e-3),
-    unit(D::Length, "cm", &["cm"], 1.0e-2),
+    unit_div(D::Length, "mm", &["mm"], 1.0e3),
+    unit_div(D::Length, "cm", &["cm"], 1.0e2),
     unit(D::Length, "km", &["km"], 1.0e3),
     unit(D::Length, "in", &["in", "inch", "inches", "\""], INCH_M),
     unit(D::Length, "ft", &["ft", "foot", "feet", "'"], FOOT_M),
@@ -268,28 +300,24 @@ static UNITS: &[UnitDef] = &[
     unit(D::Pressure, "MPa", &["MPa"], 1.0e6),
     unit(D::Pressure, "Pa", &["Pa"], 1.0),
     // Flow
-    unit(
+    unit_div(
         D::Flow,
         "L/min",
         &["L/min", "l/min", "lpm", "Lpm", "L_min"],
-        LITRE_M3 / 60.0,
+        60.0e3,
     ),
-    unit(D::Flow, "L/s", &["L/s", "l/s", "L_s"], LITRE_M3),
-    unit(D::Flow, "m³/h", &["m3/h", "m3_h"], 1.0 / 3600.0),
+    unit_div(D::Flow, "L/s", &["L/s", "l/s", "L_s"], 1.0e3),
+    unit_div(D::Flow, "m³/h", &["m3/h", "m3_h"], 3600.0),
     unit(D::Flow, "m³/s", &["m3/s"], 1.0),
-    unit(
+    unit_ratio(
         D::Flow,
         "gpm",
         &["gpm", "gal/min", "GPM"],
-        US_GALLON_M3 / 60.0,
+        US_GALLON_M3,
+        60.0,
     ),
     // Angle
-    unit(
-        D::Angle,
-        "°",
-        &["deg", "°", "degree", "degrees"],
-        DEGREE_RAD,
-    ),
+    unit_ratio(D::Angle, "°", &["deg", "°", "degree", "degrees"], PI, 180.0),
     unit(D::Angle, "rad", &["rad"], 1.0),
     // Temperature (SI here is °C, as in the design)
     unit(D::Temperature, "°C", &["C", "°C", "degC"], 1.0),
@@ -297,19 +325,21 @@ static UNITS: &[UnitDef] = &[
         dim: D::Temperature,
         label: "°F",
         aliases: &["F", "°F", "degF"],
-        scale: FAHRENHEIT_STEP_K,
-        offset: -32.0 * FAHRENHEIT_STEP_K,
+        num: 1.0,
+        den: 1.8,
+        zero: 32.0,
     },
     UnitDef {
         dim: D::Temperature,
         label: "K",
         aliases: &["K"],
-        scale: 1.0,
-        offset: -273.15,
+        num: 1.0,
+        den: 1.0,
+        zero: 273.15,
     },
     // Torque
     unit(D::Torque, "N·m", &["Nm", "N_m"], 1.0),
-    unit(D::Torque, "N·mm", &["Nmm"], 1.0e-3),
+    unit_div(D::Torque, "N·mm", &["Nmm"], 1.0e3),
     unit(
         D::Torque,
         "lbf·in",
@@ -323,23 +353,23 @@ static UNITS: &[UnitDef] = &[
         LBF_FT_N_M,
     ),
     // Mass
-    unit(D::Mass, "g", &["g"], 1.0e-3),
+    unit_div(D::Mass, "g", &["g"], 1.0e3),
     unit(D::Mass, "kg", &["kg"], 1.0),
     unit(D::Mass, "oz", &["oz"], OUNCE_KG),
     unit(D::Mass, "lb", &["lb", "lbs"], POUND_KG),
     // Area
-    unit(D::Area, "mm²", &["mm2"], 1.0e-6),
-    unit(D::Area, "cm²", &["cm2"], 1.0e-4),
+    unit_div(D::Area, "mm²", &["mm2"], 1.0e6),
+    unit_div(D::Area, "cm²", &["cm2"], 1.0e4),
     unit(D::Area, "m²", &["m2"], 1.0),
     unit(D::Area, "in²", &["in2", "sqin"], INCH_M * INCH_M),
     // Speed
     unit(D::Speed, "m/s", &["m/s", "m_s"], 1.0),
-    unit(D::Speed, "km/h", &["km/h", "kph", "km_h"], 1.0 / 3.6),
+    unit_div(D::Speed, "km/h", &["km/h", "kph", "km_h"], 3.6),
     unit(D::Speed, "ft/s", &["ft/s", "fps", "ft_s"], FOOT_M),
     unit(D::Speed, "mph", &["mph", "mi/h"], MPH_M_S),
     // Inertia
     unit(D::Inertia, "kg·m²", &["kgm2", "kg_m2"], 1.0),
-    unit(D::Inertia, "g·cm²", &["gcm2", "g_cm2"], 1.0e-7),
+    unit_div(D::Inertia, "g·cm²", &["gcm2", "g_cm2"], 1.0e7),
     unit(D::Inertia, "lb·in²", &["lbin2", "lb_in2"], LB_IN2_KG_M2),
     // Density
     unit(D::Density, "kg/m³", &["kg/m3", "kg_m3"], 1.0),
@@ -350,30 +380,27 @@ static UNITS: &[UnitDef] = &[
     unit(D::Time, "min", &["min"], 60.0),
     unit(D::Time, "h", &["h", "hr"], 3600.0),
     // Volume
-    unit(D::Volume, "L", &["L", "l"], LITRE_M3),
-    unit(D::Volume, "mL", &["mL", "ml"], 1.0e-6),
+    unit_div(D::Volume, "L", &["L", "l"], 1.0e3),
+    unit_div(D::Volume, "mL", &["mL", "ml"], 1.0e6),
     unit(D::Volume, "m³", &["m3"], 1.0),
     unit(D::Volume, "gal", &["gal"], US_GALLON_M3),
     // Rotation speed
-    unit(
+    unit_ratio(
         D::AngularSpeed,
         "rpm",
         &["rpm", "rev/min", "r/min"],
-        RPM_RAD_S,
+        2.0 * PI,
+        60.0,
     ),
     unit(D::AngularSpeed, "rad/s", &["rad/s"], 1.0),
     // Application rate
-    unit(
-        D::ApplicationRate,
-        "mm/h",
-        &["mm/h", "mm/hr"],
-        1.0e-3 / 3600.0,
-    ),
-    unit(
+    unit_div(D::ApplicationRate, "mm/h", &["mm/h", "mm/hr"], 3.6e6),
+    unit_ratio(
         D::ApplicationRate,
         "in/h",
         &["in/h", "in/hr"],
-        INCH_M / 3600.0,
+        INCH_M,
+        3600.0,
     ),
 ];
 
@@ -591,7 +618,7 @@ pub fn parse_quantity(dim: Dimension, text: &str) -> Result<f64, UnitError> {
             example: dim.example(),
         });
     };
-    let si = value * u.scale + u.offset;
+    let si = (value - u.zero) * u.num / u.den;
     if !si.is_finite() {
         return Err(UnitError::NotFinite {
             input: input.to_string(),
@@ -609,18 +636,19 @@ pub fn unit_label(dim: Dimension, system: UnitSystem) -> &'static str {
 /// An SI value (°C for temperatures) in the display unit of `dim` in `system`.
 pub fn to_display(dim: Dimension, si: f64, system: UnitSystem) -> f64 {
     let u = display_unit(dim, system);
-    (si - u.offset) / u.scale
+    si * u.den / u.num + u.zero
 }
 
 /// The inverse of [`to_display`]: a value in the display unit back to SI.
 pub fn from_display(dim: Dimension, shown: f64, system: UnitSystem) -> f64 {
     let u = display_unit(dim, system);
-    shown * u.scale + u.offset
+    (shown - u.zero) * u.num / u.den
 }
 
 /// A number with a sensible precision for a reading: three significant
 /// figures, but never rounding away digits left of the decimal point
-/// (`280`, `1250`, `40.6`, `2.80`, `0.0200`). Non-finite values show as `n/a`.
+/// (`280`, `1250`, `40.6`, `2.80`, `0.0200`); below 10⁻⁴ or from 10⁹ up,
+/// e-notation (`2.00e-5`). Non-finite values show as `n/a`.
 pub fn format_number(value: f64) -> String {
     if !value.is_finite() {
         return "n/a".to_string();
@@ -629,6 +657,10 @@ pub fn format_number(value: f64) -> String {
         return "0".to_string();
     }
     let magnitude = value.abs().log10().floor();
+    if !(-4.0..9.0).contains(&magnitude) {
+        // Far from everyday sizes: three significant figures in e-notation.
+        return format!("{value:.2e}");
+    }
     let decimals = if magnitude >= 2.0 {
         0
     } else {
@@ -751,6 +783,18 @@ mod tests {
     }
 
     #[test]
+    fn round_values_stay_exact() {
+        // The range limits of the scenario checks must hold exactly.
+        assert_eq!(parse_quantity(D::Temperature, "122F").unwrap(), 50.0);
+        assert_eq!(parse_quantity(D::Temperature, "32F").unwrap(), 0.0);
+        assert_eq!(parse_quantity(D::Temperature, "273.15K").unwrap(), 0.0);
+        assert_eq!(parse_quantity(D::SmallLength, "2.4mm").unwrap(), 0.0024);
+        assert_eq!(parse_quantity(D::Angle, "90deg").unwrap(), PI / 2.0);
+        assert_eq!(parse_quantity(D::Angle, "180deg").unwrap(), PI);
+        assert_eq!(to_display(D::Temperature, 50.0, UnitSystem::Us), 122.0);
+    }
+
+    #[test]
     fn errors_say_what_is_accepted() {
         let e = parse_quantity(D::Pressure, "2.8").unwrap_err();
         assert!(matches!(e, UnitError::MissingUnit { .. }));
@@ -845,6 +889,9 @@ mod tests {
         assert_eq!(format_number(99.96), "100");
         assert_eq!(format_number(9.996), "10.0");
         assert_eq!(format_number(0.0), "0");
+        assert_eq!(format_number(2e-5), "2.00e-5");
+        assert_eq!(format_number(-1.5e10), "-1.50e10");
+        assert_eq!(format_number(0.000_123_4), "0.000123");
         assert_eq!(unit_label(D::Flow, us), "gpm");
         assert_eq!(unit_label(D::Inertia, m), "kg·m²");
     }

@@ -279,3 +279,398 @@ fn no_command_without_a_terminal_prints_the_example_report() {
         .success()
         .stdout(predicate::str::contains("rpm"));
 }
+
+#[test]
+fn throw_reports_keys_profile_and_calibration() {
+    let file = scenario("lawn-rotor.ron");
+    let out = bin()
+        .args(["throw", file.to_str().unwrap(), "--format", "json"])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    // interface.md, "Other commands' JSON", throw.
+    for k in [
+        "wetted_radius_m",
+        "throw_at_rest_m",
+        "nozzles",
+        "profile",
+        "peak_depth_per_turn_mm",
+        "calibration_scale",
+    ] {
+        assert!(v.get(k).is_some(), "throw.{k}");
+    }
+    let n = &v["nozzles"][0];
+    for k in ["largest", "median", "small"] {
+        assert!(n["throw_m"][k].as_f64().unwrap() > 0.0, "throw_m.{k}");
+    }
+    assert!(n["d50_m"].as_f64().unwrap() < n["largest_drop_m"].as_f64().unwrap());
+    assert_eq!(v["calibration_scale"], 1.0);
+    let wetted = v["wetted_radius_m"].as_f64().unwrap();
+    // Rotation costs throw (model.md M7).
+    assert!(wetted < v["throw_at_rest_m"].as_f64().unwrap());
+    // Calibrate to a tape-measure reading 10 % shorter: the model then matches it.
+    let measured = format!("{:.3}m", 0.9 * wetted);
+    let out = bin()
+        .args([
+            "throw",
+            file.to_str().unwrap(),
+            "--format",
+            "json",
+            "--measured",
+            &measured,
+        ])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let c: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert!((c["wetted_radius_m"].as_f64().unwrap() / (0.9 * wetted) - 1.0).abs() < 2e-3);
+    assert!(c["calibration_scale"].as_f64().unwrap() < 1.0);
+    bin()
+        .args(["throw", file.to_str().unwrap(), "--measured", "7.5 parsecs"])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("--measured"));
+}
+
+#[test]
+fn layout_reports_uniformity_and_the_grid() {
+    let file = scenario("lawn-rotor.ron");
+    let out = bin()
+        .args(["layout", file.to_str().unwrap(), "--format", "json"])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    for k in [
+        "pattern",
+        "spacing_m",
+        "rows_m",
+        "mean_rate_mm_h",
+        "expected_rate_mm_h",
+        "cu_percent",
+        "du_lq_percent",
+        "du_lh_percent",
+        "scheduling_multiplier",
+        "spacing_percent_of_diameter",
+        "grid",
+    ] {
+        assert!(v.get(k).is_some(), "layout.{k}");
+    }
+    assert_eq!(v["pattern"], "square");
+    // The layout mean equals Q/(S·L) within 1 % (model.md M9).
+    let (mean, expected) = (
+        v["mean_rate_mm_h"].as_f64().unwrap(),
+        v["expected_rate_mm_h"].as_f64().unwrap(),
+    );
+    assert!((mean / expected - 1.0).abs() < 0.01, "{mean} vs {expected}");
+    assert!(v["grid"]["rate_mm_h"].as_array().unwrap().len() > 10);
+    // Text: a depth map with a legend in mm/h; an intake rate below the mean warns.
+    bin()
+        .args(["layout", file.to_str().unwrap(), "--intake", "5mm/h"])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("mm/h"))
+        .stdout(predicate::str::contains("█"))
+        .stdout(predicate::str::contains("soak"));
+    // Overrides and the measured catch cans.
+    let cans = scenario("catch-cans-example.csv");
+    bin()
+        .args([
+            "layout",
+            file.to_str().unwrap(),
+            "--pattern",
+            "triangle",
+            "--spacing",
+            "30ft",
+            "--catch-cans",
+            cans.to_str().unwrap(),
+        ])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("triangle"))
+        .stdout(predicate::str::contains("Measured catch cans"));
+    bin()
+        .args(["layout", file.to_str().unwrap(), "--spacing", "-3m"])
+        .assert()
+        .code(2);
+}
+
+#[test]
+fn target_writes_a_design_that_solves_to_the_target() {
+    let dir = tempfile::tempdir().unwrap();
+    let out_path = dir.path().join("tuned.ron");
+    let file = scenario("lawn-rotor.ron");
+    let out = bin()
+        .args([
+            "target",
+            file.to_str().unwrap(),
+            "--rpm",
+            "40",
+            "--adjust",
+            "brake",
+            "--format",
+            "json",
+            "--out",
+        ])
+        .arg(&out_path)
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["parameter"], "viscous");
+    assert_eq!(v["reachable"], true);
+    // The written scenario solves to the target within 0.1 % (issue acceptance).
+    let out = bin()
+        .args(["solve", out_path.to_str().unwrap(), "--format", "json"])
+        .output()
+        .unwrap();
+    let s: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let rpm = s["operating_point"]["rpm"].as_f64().unwrap();
+    assert!((rpm / 40.0 - 1.0).abs() < 1e-3, "{rpm}");
+    // Out of reach: flagged, with the nearest value.
+    let out = bin()
+        .args([
+            "target",
+            file.to_str().unwrap(),
+            "--rpm",
+            "400",
+            "--adjust",
+            "deflection",
+            "--format",
+            "json",
+        ])
+        .output()
+        .unwrap();
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["reachable"], false);
+    assert!(v["achieved_rpm"].as_f64().unwrap() < 400.0);
+    bin()
+        .args([
+            "target",
+            file.to_str().unwrap(),
+            "--rpm",
+            "40",
+            "--adjust",
+            "colour",
+        ])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("--adjust"));
+}
+
+#[test]
+fn check_round_trip_and_findings() {
+    let file = scenario("lawn-rotor.ron");
+    let out = bin()
+        .args(["solve", file.to_str().unwrap(), "--format", "json"])
+        .output()
+        .unwrap();
+    let s: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let rpm = s["operating_point"]["rpm"].as_f64().unwrap();
+    // The model's own speed at the design pressure: no deviation, friction as designed.
+    let out = bin()
+        .args([
+            "check",
+            file.to_str().unwrap(),
+            "--pressure",
+            "300kPa",
+            "--rpm",
+            &format!("{rpm}"),
+            "--format",
+            "json",
+        ])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let c: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    for k in [
+        "expected_rpm",
+        "measured_rpm",
+        "measured_rpm_band",
+        "deviation_percent",
+        "implied_running_torque_n_m",
+        "design_running_torque_n_m",
+        "implied_nozzle_diameter_m",
+        "findings",
+    ] {
+        assert!(c.get(k).is_some(), "check.{k}");
+    }
+    assert!(c["deviation_percent"].as_f64().unwrap().abs() < 1e-6);
+    let implied = c["implied_running_torque_n_m"].as_f64().unwrap();
+    let design = c["design_running_torque_n_m"].as_f64().unwrap();
+    assert!((implied / design - 1.0).abs() < 1e-6);
+    // A slow, thirsty unit: worn nozzle and a dragging bearing, in trade words.
+    bin()
+        .args([
+            "check",
+            file.to_str().unwrap(),
+            "--pressure",
+            "2.5bar",
+            "--turns",
+            "5",
+            "--over",
+            "20s",
+            "--caught",
+            "5L",
+            "--over",
+            "14s",
+        ])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("nozzle worn"))
+        .stdout(predicate::str::contains("bearing drag"));
+    // CSV for a field log: header unless --no-header.
+    let out = bin()
+        .args([
+            "check",
+            file.to_str().unwrap(),
+            "--pressure",
+            "300kPa",
+            "--rpm",
+            "28",
+            "--format",
+            "csv",
+            "--no-header",
+        ])
+        .output()
+        .unwrap();
+    assert_eq!(String::from_utf8(out.stdout).unwrap().lines().count(), 1);
+    bin()
+        .args([
+            "check",
+            file.to_str().unwrap(),
+            "--pressure",
+            "300kPa",
+            "--turns",
+            "10",
+        ])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("--over"));
+}
+
+#[test]
+fn sweep_rows_and_statuses() {
+    let file = scenario("lawn-rotor.ron");
+    let out = bin()
+        .args([
+            "sweep",
+            file.to_str().unwrap(),
+            "--vary",
+            "deflection=0:120:5",
+            "--vary",
+            "pressure=150kPa:400kPa:3",
+            "--format",
+            "csv",
+        ])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = String::from_utf8(out.stdout).unwrap();
+    let lines: Vec<&str> = text.lines().collect();
+    assert_eq!(
+        lines[0],
+        "deflection_rad,pressure_pa,status,rpm,start_margin,total_flow_m3_s,wetted_radius_m"
+    );
+    assert_eq!(lines.len(), 1 + 15);
+    // Forward-facing nozzles (120°) do not drive: a row that says so, not an abort.
+    assert!(text.contains("stalls_at_rest"));
+    bin()
+        .args(["sweep", file.to_str().unwrap(), "--vary", "colour=1:2:3"])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("unknown parameter"));
+}
+
+#[test]
+fn compare_lists_differences_and_deltas() {
+    let a = scenario("lawn-rotor.ron");
+    let b = scenario("patio-rotor-us.ron");
+    let out = bin()
+        .args([
+            "compare",
+            a.to_str().unwrap(),
+            b.to_str().unwrap(),
+            "--format",
+            "json",
+        ])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert!(v["inputs"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|i| i["path"] == "supply.inlet_pa"));
+    let keys: Vec<&str> = v["results"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|r| r["key"].as_str().unwrap())
+        .collect();
+    for k in [
+        "rpm",
+        "start_margin",
+        "total_flow_m3_s",
+        "wetted_radius_m",
+        "cu_percent",
+        "du_lq_percent",
+    ] {
+        assert!(keys.contains(&k), "compare result {k}");
+    }
+    bin()
+        .args(["compare", a.to_str().unwrap()])
+        .assert()
+        .code(2);
+}
+
+#[test]
+fn a_crash_writes_a_report_and_says_where() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = bin()
+        .env("SPINWRIGHT_DELIBERATE_PANIC", "1")
+        .env("TMPDIR", dir.path())
+        .args(["solve", scenario("lawn-rotor.ron").to_str().unwrap()])
+        .output()
+        .unwrap();
+    assert!(!out.status.success());
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert!(stderr.contains("crash report was written to"), "{stderr}");
+    let reports: Vec<_> = std::fs::read_dir(dir.path())
+        .unwrap()
+        .filter_map(Result::ok)
+        .collect();
+    assert_eq!(reports.len(), 1);
+    let text = std::fs::read_to_string(reports[0].path()).unwrap();
+    assert!(text.contains("deliberate panic"));
+}

@@ -1,11 +1,15 @@
-//! The one integration-test binary: outside-reference checks and CLI tests.
+//! The one integration-test binary: outside-reference checks, file and CLI tests.
 mod catch_can_audit;
 mod cli;
 mod engine_properties;
 mod engine_reference;
+mod inverse;
 mod pattern_conservation;
 mod reference_fluid;
 mod reference_pipe;
+mod scenario_files;
+mod scenario_roundtrip;
+mod support;
 mod throw_rotation;
 mod trajectory_reference;
 mod uniformity_reference;

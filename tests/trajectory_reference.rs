@@ -120,6 +120,7 @@ fn trajectories_with_drag_match_scipy_solve_ivp() {
     let num = |r: &csv::StringRecord, name: &str| -> f64 { r[col(name)].parse().unwrap() };
     let mut count = 0;
     let mut worst: f64 = 0.0;
+    let mut worst_pattern: f64 = 0.0;
     for record in reader.records() {
         let r = record.unwrap();
         let env = FlightEnv {
@@ -136,20 +137,30 @@ fn trajectories_with_drag_match_scipy_solve_ivp() {
         };
         let start = Vector3::new(num(&r, "x0"), num(&r, "y0"), num(&r, "z0"));
         let vel = Vector3::new(num(&r, "vx"), num(&r, "vy"), num(&r, "vz"));
-        for opts in [
-            FlightOptions {
-                drag,
-                ..FlightOptions::default()
-            },
-            FlightOptions {
-                drag,
-                ..FlightOptions::pattern()
-            },
+        for (opts, tight) in [
+            (
+                FlightOptions {
+                    drag,
+                    ..FlightOptions::default()
+                },
+                true,
+            ),
+            (
+                FlightOptions {
+                    drag,
+                    ..FlightOptions::pattern()
+                },
+                false,
+            ),
         ] {
             let land = fly(&start, &vel, num(&r, "diameter_m"), &env, &opts).unwrap();
             let expect = num(&r, "distance_m");
             let err = (land.distance_m / expect - 1.0).abs();
-            worst = worst.max(err);
+            if tight {
+                worst = worst.max(err);
+            } else {
+                worst_pattern = worst_pattern.max(err);
+            }
             assert!(
                 err < 0.005,
                 "case {}: {} vs {expect}",
@@ -163,6 +174,11 @@ fn trajectories_with_drag_match_scipy_solve_ivp() {
         count += 1;
     }
     assert_eq!(count, 60);
-    // The integrators agree far better than the 0.5 % required.
-    assert!(worst < 1e-5, "worst relative difference {worst}");
+    // The integrators agree far better than the 0.5 % required: to 1e-6 at the
+    // default tolerances, 1e-4 at the looser ones used for patterns.
+    assert!(worst < 1e-6, "worst relative difference {worst}");
+    assert!(
+        worst_pattern < 1e-4,
+        "worst relative difference {worst_pattern}"
+    );
 }

@@ -5,9 +5,12 @@
 //! problem worth a script's attention (stalls, no equilibrium); 2 bad input,
 //! with a message naming the file, line and field or the argument.
 
+mod inverse;
+mod layout;
 mod solve;
 mod table;
 pub mod text;
+mod throw;
 
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -55,6 +58,121 @@ pub enum Command {
         #[command(flatten)]
         out: Output,
     },
+    /// Trajectories per nozzle, wetted radius and radial application profile.
+    Throw {
+        /// The scenario file.
+        file: PathBuf,
+        /// A measured wetted radius (e.g. 7.5m, 25ft): calibrate the drop sizes to it.
+        #[arg(long)]
+        measured: Option<String>,
+        /// Format and units of the report.
+        #[command(flatten)]
+        out: Output,
+    },
+    /// Overlap of heads in a layout: CU, DU, application rate, depth map.
+    Layout {
+        /// The scenario file.
+        file: PathBuf,
+        /// Layout pattern, overriding the scenario's (needs --spacing).
+        #[arg(long, value_enum)]
+        pattern: Option<PatternArg>,
+        /// Head spacing along a row (e.g. 9m, 30ft).
+        #[arg(long)]
+        spacing: Option<String>,
+        /// Row spacing for a rectangle (e.g. 10m).
+        #[arg(long)]
+        rows: Option<String>,
+        /// Soil intake rate (e.g. 10mm/h, 0.4in/h): warn and suggest cycle-and-soak above it.
+        #[arg(long)]
+        intake: Option<String>,
+        /// Measured catch-can test (CSV) to rate beside the model.
+        #[arg(long, value_name = "CSV")]
+        catch_cans: Option<PathBuf>,
+        /// Format and units of the report.
+        #[command(flatten)]
+        out: Output,
+    },
+    /// Field check: measured pressure and rotation against the design.
+    Check {
+        /// The scenario file of the unit's design.
+        file: PathBuf,
+        /// Measured inlet pressure (e.g. 2.8bar, 40psi).
+        #[arg(long)]
+        pressure: String,
+        /// Measured speed, rpm.
+        #[arg(long)]
+        rpm: Option<f64>,
+        /// Time of one turn (e.g. 1.5s).
+        #[arg(long)]
+        seconds_per_turn: Option<String>,
+        /// Turns counted over --over TIME.
+        #[arg(long)]
+        turns: Option<f64>,
+        /// Time of the counted turns, then of the caught volume (e.g. 14.2s).
+        #[arg(long, action = clap::ArgAction::Append)]
+        over: Vec<String>,
+        /// Measured total flow (e.g. 12L/min, 3.2gpm).
+        #[arg(long)]
+        flow: Option<String>,
+        /// Volume caught in a bucket over --over TIME (e.g. 5L).
+        #[arg(long)]
+        caught: Option<String>,
+        /// Measured wetted radius (e.g. 7.5m).
+        #[arg(long)]
+        throw: Option<String>,
+        /// Stopwatch resolution (default 0.2s).
+        #[arg(long)]
+        stopwatch: Option<String>,
+        /// CSV without its header line, for appending to a log.
+        #[arg(long)]
+        no_header: bool,
+        /// Format and units of the report.
+        #[command(flatten)]
+        out: Output,
+    },
+    /// Find the design value that gives a target speed or wetted radius.
+    Target {
+        /// The scenario file.
+        file: PathBuf,
+        /// Wanted operating speed, rpm.
+        #[arg(long)]
+        rpm: Option<f64>,
+        /// Wanted wetted radius (e.g. 8m).
+        #[arg(long)]
+        throw: Option<String>,
+        /// What to adjust: deflection, elevation, radius, nozzle, viscous, quadratic (brake: viscous).
+        #[arg(long)]
+        adjust: String,
+        /// Write the adjusted scenario here (an existing file is kept as .bak).
+        #[arg(long)]
+        out: Option<PathBuf>,
+        /// Format and units of the report.
+        #[command(flatten)]
+        output: Output,
+    },
+    /// Sweep one or two parameters: --vary NAME=FROM:TO:STEPS.
+    Sweep {
+        /// The scenario file.
+        file: PathBuf,
+        /// A parameter and its range, e.g. deflection=0:60:13 or pressure=150kPa:400kPa:6.
+        #[arg(long, required = true)]
+        vary: Vec<String>,
+        /// Also rate the scenario's layout at each point (CU).
+        #[arg(long)]
+        layout: bool,
+        /// Format and units of the report.
+        #[command(flatten)]
+        out: Output,
+    },
+    /// Scenarios side by side: inputs that differ, key results, deltas.
+    Compare {
+        /// Two or more scenario files; the first is the reference.
+        #[arg(required = true, num_args = 2..)]
+        files: Vec<PathBuf>,
+        /// Format and units of the report.
+        #[command(flatten)]
+        out: Output,
+    },
     /// Write a commented starter scenario.
     New {
         /// Where to write it (refused if it exists, unless --force).
@@ -77,6 +195,17 @@ pub struct Output {
     /// Unit system for text and CSV (JSON is always SI with the unit in each key).
     #[arg(long, value_enum, default_value_t = Units::Metric)]
     pub units: Units,
+}
+
+/// Layout patterns on the command line.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum PatternArg {
+    /// Heads on a square grid S × S.
+    Square,
+    /// Heads S apart along rows L apart.
+    Rectangle,
+    /// Equilateral triangles of side S.
+    Triangle,
 }
 
 /// Report formats.
@@ -161,8 +290,147 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             points,
             out: o,
         } => table::run(&file, points as usize, o, out),
+        Command::Throw {
+            file,
+            measured,
+            out: o,
+        } => {
+            let measured = measured
+                .map(|m| quantity("--measured", crate::units::Dimension::Length, &m))
+                .transpose()?;
+            throw::run(&file, measured, o, out)
+        }
+        Command::Layout {
+            file,
+            pattern,
+            spacing,
+            rows,
+            intake,
+            catch_cans,
+            out: o,
+        } => {
+            let args = layout::LayoutArgs {
+                layout: layout_override(pattern, spacing.as_deref(), rows.as_deref())?,
+                intake_mm_h: intake
+                    .map(|i| quantity("--intake", crate::units::Dimension::ApplicationRate, &i))
+                    .transpose()?
+                    .map(|r| r * crate::physics::pattern::M_S_TO_MM_H),
+                catch_cans,
+                width: layout::terminal_width(),
+            };
+            layout::run(&file, &args, o, out)
+        }
+        Command::Check {
+            file,
+            pressure,
+            rpm,
+            seconds_per_turn,
+            turns,
+            over,
+            flow,
+            caught,
+            throw,
+            stopwatch,
+            no_header,
+            out: o,
+        } => {
+            let args = inverse::CheckArgs {
+                pressure,
+                rpm,
+                seconds_per_turn,
+                turns,
+                over,
+                flow,
+                caught,
+                throw,
+                stopwatch,
+                no_header,
+            };
+            inverse::run_check(&file, &args, o, out)
+        }
+        Command::Target {
+            file,
+            rpm,
+            throw,
+            adjust,
+            out: written,
+            output,
+        } => {
+            let adjust = if adjust == "brake" {
+                "viscous".to_string()
+            } else {
+                adjust
+            };
+            let args = inverse::TargetArgs {
+                rpm,
+                throw,
+                adjust,
+                out: written,
+            };
+            inverse::run_target(&file, &args, output, out)
+        }
+        Command::Sweep {
+            file,
+            vary,
+            layout,
+            out: o,
+        } => inverse::run_sweep(&file, &vary, layout, o, out),
+        Command::Compare { files, out: o } => inverse::run_compare(&files, o, out),
         Command::New { file, units, force } => new_scenario(&file, units.into(), force, out),
     }
+}
+
+/// Parse a quantity typed with units, naming the argument on error.
+pub fn quantity(argument: &str, dim: crate::units::Dimension, text: &str) -> Result<f64, CliError> {
+    crate::units::parse_quantity(dim, text).map_err(|error| CliError::Quantity {
+        argument: argument.to_string(),
+        error,
+    })
+}
+
+fn layout_override(
+    pattern: Option<PatternArg>,
+    spacing: Option<&str>,
+    rows: Option<&str>,
+) -> Result<Option<crate::physics::design::Layout>, CliError> {
+    use crate::physics::design::Layout;
+    use crate::units::Dimension;
+    let positive = |arg: &str, text: &str| -> Result<f64, CliError> {
+        let v = quantity(arg, Dimension::Length, text)?;
+        if v > 0.0 {
+            Ok(v)
+        } else {
+            Err(CliError::Usage(format!(
+                "{arg} {text}: a spacing must be more than zero"
+            )))
+        }
+    };
+    let Some(spacing) = spacing else {
+        return match (pattern, rows) {
+            (None, None) => Ok(None),
+            _ => Err(CliError::Usage(
+                "--pattern and --rows need --spacing".into(),
+            )),
+        };
+    };
+    let spacing_m = positive("--spacing", spacing)?;
+    Ok(Some(match (pattern, rows) {
+        (Some(PatternArg::Rectangle), Some(r)) | (None, Some(r)) => Layout::Rectangle {
+            spacing_m,
+            rows_m: positive("--rows", r)?,
+        },
+        (Some(PatternArg::Rectangle), None) => {
+            return Err(CliError::Usage("--pattern rectangle needs --rows".into()))
+        }
+        (Some(PatternArg::Triangle), None) => Layout::Triangle { spacing_m },
+        (Some(PatternArg::Square), None) => Layout::Square { spacing_m },
+        (None, None) => Layout::Square { spacing_m },
+        (Some(_), Some(_)) => {
+            return Err(CliError::Usage(
+                "--rows goes with --pattern rectangle".into(),
+            ))
+        }
+    }))
 }
 
 fn new_scenario(
@@ -217,9 +485,16 @@ pub fn open_without_command(file: Option<PathBuf>) -> Result<(), String> {
             .map_err(|e| format!("{e:#}"))?,
     };
     let report = crate::physics::balance::solve(&design);
+    let head = crate::physics::coverage::head_throw(
+        &design,
+        &report,
+        &crate::physics::pattern::PatternOptions::default(),
+        None,
+    )
+    .ok();
     print!(
         "{}",
-        solve::solve_text(&design, &report, UnitSystem::Metric)
+        solve::solve_text(&design, &report, head.as_ref(), UnitSystem::Metric)
     );
     Ok(())
 }

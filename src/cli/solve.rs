@@ -8,8 +8,10 @@ use serde::Serialize;
 use super::text::TextTable;
 use super::{load_design, CliError, Format, Outcome, Output};
 use crate::physics::balance::{rpm, solve, SpinReport, SpinStatus};
+use crate::physics::coverage::{head_throw, HeadThrow};
 use crate::physics::design::Design;
 use crate::physics::hydraulics::SupplyState;
+use crate::physics::pattern::PatternOptions;
 use crate::physics::torque::{absolute_velocity, arm_frame};
 use crate::units::{format_quantity, Dimension as D, UnitSystem};
 
@@ -106,8 +108,27 @@ pub fn jet_components(design: &Design, state: &SupplyState) -> Vec<[f64; 3]> {
         .collect()
 }
 
+/// Per-arm throw (largest drop) and wetted radius, m, when the throw could be computed.
+pub fn throws(head: Option<&HeadThrow>, arms: usize) -> (Vec<Option<f64>>, Option<f64>) {
+    match head {
+        Some(h) => (
+            (0..arms)
+                .map(|k| {
+                    h.throw
+                        .nozzles
+                        .get(k)
+                        .and_then(|n| n.as_ref().map(|t| t.throw_largest_m))
+                })
+                .collect(),
+            Some(h.throw.wetted_radius_m),
+        ),
+        None => (vec![None; arms], None),
+    }
+}
+
 /// Build the JSON report.
-pub fn solve_json(design: &Design, report: &SpinReport) -> SolveJson {
+pub fn solve_json(design: &Design, report: &SpinReport, head: Option<&HeadThrow>) -> SolveJson {
+    let (nozzle_throws, wetted) = throws(head, design.rotor.arms.len());
     let state = reported_state(report);
     let r_max = design
         .rotor
@@ -148,12 +169,13 @@ pub fn solve_json(design: &Design, report: &SpinReport) -> SolveJson {
             .nozzles
             .iter()
             .zip(jet_components(design, state))
-            .map(|(n, v)| NozzleJson {
+            .zip(nozzle_throws)
+            .map(|((n, v), throw_m)| NozzleJson {
                 flow_m3_s: n.flow_m3_s,
                 nozzle_pressure_pa: n.nozzle_pressure_pa,
                 jet_speed_relative_m_s: n.jet_speed_relative_m_s,
                 jet_velocity_absolute_m_s: v,
-                throw_m: None,
+                throw_m,
             })
             .collect(),
         resisting_torque_n_m: report.operating.as_ref().map(|op| {
@@ -175,7 +197,7 @@ pub fn solve_json(design: &Design, report: &SpinReport) -> SolveJson {
             t90: s.t90_s,
             t99: s.t99_s,
         }),
-        wetted_radius_m: None,
+        wetted_radius_m: wetted,
         warnings: report.warnings.iter().map(ToString::to_string).collect(),
     }
 }
@@ -209,7 +231,13 @@ pub fn headline(report: &SpinReport, units: UnitSystem) -> String {
 }
 
 /// The text report.
-pub fn solve_text(design: &Design, report: &SpinReport, units: UnitSystem) -> String {
+pub fn solve_text(
+    design: &Design,
+    report: &SpinReport,
+    head: Option<&HeadThrow>,
+    units: UnitSystem,
+) -> String {
+    let (nozzle_throws, wetted) = throws(head, design.rotor.arms.len());
     let q = |dim, v| format_quantity(dim, v, units);
     let mut s = String::new();
     s.push_str(&format!("{}: {}\n", design.name, headline(report, units)));
@@ -312,12 +340,14 @@ pub fn solve_text(design: &Design, report: &SpinReport, units: UnitSystem) -> St
         format!("V radial {speed}"),
         format!("V tangential {speed}"),
         format!("V vertical {speed}"),
+        format!("throw {}", crate::units::unit_label(D::Length, units)),
     ]);
     let show = |dim, v| crate::units::format_number(crate::units::to_display(dim, v, units));
-    for (k, (n, v)) in state
+    for (k, ((n, v), throw)) in state
         .nozzles
         .iter()
         .zip(jet_components(design, state))
+        .zip(&nozzle_throws)
         .enumerate()
     {
         if n.flowing {
@@ -329,12 +359,19 @@ pub fn solve_text(design: &Design, report: &SpinReport, units: UnitSystem) -> St
                 show(D::Speed, v[0]),
                 show(D::Speed, v[1]),
                 show(D::Speed, v[2]),
+                throw.map_or("—".into(), |t| show(D::Length, t)),
             ]);
         } else {
             t.row([format!("{}", k + 1), "not flowing".to_string()]);
         }
     }
     s.push_str(&t.render(2));
+    if let Some(w) = wetted {
+        s.push_str(&format!(
+            "  wetted radius {} (largest drop, still air)\n",
+            q(D::Length, w)
+        ));
+    }
     if let Some(p) = report.power {
         let pct = |x: f64| {
             if p.hydraulic_w > 0.0 {
@@ -360,15 +397,21 @@ pub fn solve_text(design: &Design, report: &SpinReport, units: UnitSystem) -> St
 pub fn run(path: &Path, o: Output, strict: bool, out: &mut dyn Write) -> Result<Outcome, CliError> {
     let design = load_design(path)?;
     let report = solve(&design);
+    let head = head_throw(&design, &report, &PatternOptions::default(), None).ok();
+    let head = head.as_ref();
     match o.format {
         Format::Json => {
-            serde_json::to_writer_pretty(&mut *out, &solve_json(&design, &report))
+            serde_json::to_writer_pretty(&mut *out, &solve_json(&design, &report, head))
                 .map_err(std::io::Error::from)?;
             writeln!(out)?;
         }
-        Format::Text => write!(out, "{}", solve_text(&design, &report, o.units.into()))?,
+        Format::Text => write!(
+            out,
+            "{}",
+            solve_text(&design, &report, head, o.units.into())
+        )?,
         Format::Csv => {
-            let json = solve_json(&design, &report);
+            let json = solve_json(&design, &report, head);
             let mut w = csv::Writer::from_writer(out);
             w.write_record(["quantity", "value", "unit"])?;
             let units: UnitSystem = o.units.into();
@@ -395,6 +438,7 @@ pub fn run(path: &Path, o: Output, strict: bool, out: &mut dyn Write) -> Result<
             put("hub pressure", D::Pressure, Some(json.hub_pressure_pa))?;
             put("total flow", D::Flow, Some(json.total_flow_m3_s))?;
             put("runaway", D::AngularSpeed, report.runaway_rad_s)?;
+            put("wetted radius", D::Length, json.wetted_radius_m)?;
             w.write_record([
                 "start margin".to_string(),
                 json.start_margin.map_or(String::new(), |m| format!("{m}")),

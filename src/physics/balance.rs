@@ -299,7 +299,7 @@ impl std::fmt::Display for Warning {
 pub struct OperatingPoint {
     /// Torques and water path at the operating speed.
     pub point: TorquePoint,
-    /// Jets at the exit of every flowing nozzle.
+    /// The jet of every arm, in arm order (zero flow for an idle nozzle).
     pub jets: Vec<JetExit>,
     /// Stability (always true for an operating point found from rest).
     pub stable: bool,
@@ -452,8 +452,33 @@ fn scan_roots(
     (found, errors)
 }
 
+/// What [`solve_with`] works out beyond the equilibria and the start check.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct SolveOptions {
+    /// Integrate the spin-up from rest (about half the cost of a solve).
+    pub spin_up: bool,
+}
+
+impl Default for SolveOptions {
+    fn default() -> Self {
+        SolveOptions { spin_up: true }
+    }
+}
+
 /// Solve one design: start check, equilibria, operating point, spin-up, power.
 pub fn solve(design: &Design) -> SpinReport {
+    solve_with(design, &SolveOptions::default())
+}
+
+/// Solve one design for the speed alone: as [`solve`] without the spin-up
+/// (`spin_up` is `None`). For sweeps, target searches and field checks, which
+/// need the operating point but not how fast it is reached.
+pub fn solve_speed(design: &Design) -> SpinReport {
+    solve_with(design, &SolveOptions { spin_up: false })
+}
+
+/// [`solve`] with options.
+pub fn solve_with(design: &Design, options: &SolveOptions) -> SpinReport {
     let model = SpinModel::new(design);
     let mut warnings = Vec::new();
     let r_max = design
@@ -565,6 +590,7 @@ pub fn solve(design: &Design) -> SpinReport {
 
     let spin_up = operating
         .as_ref()
+        .filter(|_| options.spin_up)
         .and_then(|op| spin_up_times(&model, inertia, op.omega_rad_s(), net_off_rest));
     let power = operating.as_ref().map(|op| PowerBalance {
         shaft_w: op.point.drive_n_m * op.omega_rad_s(),

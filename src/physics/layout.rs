@@ -38,6 +38,8 @@ use std::f64::consts::PI;
 
 /// Default catch cells along a row over one repeating cell.
 pub const DEFAULT_CELLS_ALONG_ROW: usize = 40;
+/// Most heads allowed to reach one catch point (a guard on absurd spacings).
+pub const MAX_HEADS_IN_REACH: f64 = 20_000.0;
 /// Default surface storage before runoff, mm (a project assumption for level turf).
 pub const DEFAULT_SURFACE_STORAGE_MM: f64 = 2.5;
 
@@ -352,6 +354,17 @@ pub fn overlap(
             detail: "wets nothing: no water to overlap".to_string(),
         });
     }
+    // Heads within reach of one catch point: keep the overlap sum bounded.
+    let heads_in_reach = PI * (reach + s + l).powi(2) / (s * l);
+    if heads_in_reach > MAX_HEADS_IN_REACH {
+        return Err(ThrowError::InvalidInput {
+            field: "head spacing".to_string(),
+            detail: format!(
+                "of {s} m × {l} m is far too close for a head that wets {reach:.1} m \
+                 (over {MAX_HEADS_IN_REACH} heads would overlap at each point)"
+            ),
+        });
+    }
     let wetted = match opts.wetted_radius_m {
         Some(r) => require_positive("wetted radius (m)", r)?,
         None => reach,
@@ -534,6 +547,22 @@ mod tests {
             r.grid.rate_mm_h.len(),
             (40.0 * 3f64.sqrt() / 2.0).round() as usize
         );
+    }
+
+    #[test]
+    fn absurd_spacing_is_an_error() {
+        let leg = MeasuredLeg::new(vec![(0.0, 6.0), (20.0, 0.0)]).unwrap();
+        let tight = Layout::Square { spacing_m: 0.05 };
+        let e = overlap(&tight, &leg, &OverlapOptions::default()).unwrap_err();
+        assert!(e.to_string().contains("too close"), "{e}");
+        assert!(overlap(
+            &Layout::Square {
+                spacing_m: f64::NAN
+            },
+            &leg,
+            &OverlapOptions::default()
+        )
+        .is_err());
     }
 
     #[test]

@@ -12,10 +12,16 @@
 //! - [`spray`]: drop-size spectrum per nozzle, calibration to a measured throw (M8).
 //! - [`pattern`]: radial application profile and the 2-D pattern in wind (M8).
 //! - [`layout`]: head layouts, overlap, CU / DU and the soil-intake check (M9).
+//! - [`coverage`]: the spin state handed to throw, pattern and layout (M6 → M7–M9).
 //! - [`root`]: bracketed root finding with the bracket kept for reports.
+//! - [`field`]: field check, readings at a running sprinkler against its design (M10).
+//! - [`target`]: the value of one design parameter that gives a target speed or throw.
+//! - [`study`]: named parameters, one- and two-axis sweeps, design comparison.
 
 pub mod balance;
+pub mod coverage;
 pub mod design;
+pub mod field;
 pub mod fixtures;
 pub mod fluid;
 pub mod hydraulics;
@@ -25,5 +31,7 @@ pub mod pattern;
 pub mod pipe;
 pub mod root;
 pub mod spray;
+pub mod study;
+pub mod target;
 pub mod torque;
 pub mod trajectory;

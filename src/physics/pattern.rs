@@ -535,11 +535,39 @@ fn cross(a: Vector2<f64>, b: Vector2<f64>) -> f64 {
     a.x * b.y - a.y * b.x
 }
 
+/// If `jet` is `rep` turned by a whole number m of azimuth steps (and has the
+/// same nozzle, so the same spectrum), returns m mod `n_az`.
+fn same_jet_turned(rep: &JetExit, jet: &JetExit, step: f64, n_az: usize) -> Option<usize> {
+    if rep.nozzle_diameter_m != jet.nozzle_diameter_m
+        || rep.nozzle_pressure_pa != jet.nozzle_pressure_pa
+    {
+        return None;
+    }
+    let angle = |j: &JetExit| j.position_m.y.atan2(j.position_m.x);
+    let delta = angle(jet) - angle(rep);
+    let m = delta / step;
+    let whole = m.round();
+    if (m - whole).abs() > 1e-9 {
+        return None;
+    }
+    let turned = rep.turned(whole * step);
+    let close = |a: &nalgebra::Vector3<f64>, b: &nalgebra::Vector3<f64>| {
+        (a - b).norm() <= 1e-9 * (1.0 + a.norm())
+    };
+    if !(close(&turned.position_m, &jet.position_m)
+        && close(&turned.velocity_m_s, &jet.velocity_m_s))
+    {
+        return None;
+    }
+    Some((whole as i64).rem_euclid(n_az as i64) as usize)
+}
+
 /// The 2-D application pattern of one head, with the wind in `env`.
 ///
 /// Each flowing jet is swept through `opts.azimuths` time-uniform azimuths
 /// (`JetExit::turned`); every bin edge is flown at each and the water deposited
-/// as described in the module docs. Runs the flights in parallel.
+/// as described in the module docs. Runs the flights in parallel; jets that
+/// are turned copies of one another (by whole azimuth steps) share flights.
 pub fn windy_pattern(
     jets: &[JetExit],
     spec: &SpraySpec,
@@ -563,8 +591,26 @@ pub fn windy_pattern(
         .map(|jet| Spectrum::for_jet(spec, jet, &env.still(), opts.bins, opts.scale))
         .collect::<Result<Vec<_>, ThrowError>>()?;
     let n_az = opts.azimuths;
-    // landings[j][k][e]: jet j, azimuth k, bin edge e.
+    // Jets that are copies of an earlier one turned by a whole number of
+    // azimuth steps (identical arms evenly spaced) sweep the same flights:
+    // fly each such family once. source[j] = (representative, azimuth shift).
+    let step = 2.0 * PI / n_az as f64;
+    let mut source: Vec<(usize, usize)> = Vec::with_capacity(flowing.len());
+    for (j, jet) in flowing.iter().enumerate() {
+        let found = (0..j).find_map(|i| {
+            let (rep_index, _) = *source.get(i)?;
+            if rep_index != i {
+                return None;
+            }
+            let rep = flowing.get(i)?;
+            same_jet_turned(rep, jet, step, n_az).map(|shift| (i, shift))
+        });
+        source.push(found.unwrap_or((j, 0)));
+    }
+    // Flights of representatives only; flown[r][k][e]: representative r,
+    // azimuth k, bin edge e.
     let tasks: Vec<(usize, usize)> = (0..flowing.len())
+        .filter(|&j| source.get(j).is_some_and(|s| s.0 == j))
         .flat_map(|j| (0..n_az).map(move |k| (j, k)))
         .collect();
     let flown = tasks
@@ -585,7 +631,10 @@ pub fn windy_pattern(
                 .collect::<Result<Vec<Vector2<f64>>, ThrowError>>()
         })
         .collect::<Result<Vec<Vec<Vector2<f64>>>, ThrowError>>()?;
-    let landings: Vec<&[Vec<Vector2<f64>>]> = flown.chunks(n_az).collect();
+    let rep_rows: Vec<&[Vec<Vector2<f64>>]> = flown.chunks(n_az).collect();
+    let reps: Vec<usize> = (0..flowing.len())
+        .filter(|&j| source.get(j).is_some_and(|s| s.0 == j))
+        .collect();
 
     // Grid extent.
     let (mut lo, mut hi) = (
@@ -620,10 +669,23 @@ pub fn windy_pattern(
     };
 
     let mut weights = Vec::new();
-    for ((jet, spectrum), rows) in flowing.iter().zip(&spectra).zip(&landings) {
+    for (j, (jet, spectrum)) in flowing.iter().zip(&spectra).enumerate() {
+        let Some(&(rep, shift)) = source.get(j) else {
+            continue;
+        };
+        let Some(rows) = reps
+            .iter()
+            .position(|&r| r == rep)
+            .and_then(|p| rep_rows.get(p))
+        else {
+            continue;
+        };
         let per_az = jet.flow_m3_s / n_az as f64;
         for k in 0..n_az {
-            let (Some(a), Some(b)) = (rows.get(k), rows.get((k + 1) % n_az)) else {
+            let (Some(a), Some(b)) = (
+                rows.get((k + shift) % n_az),
+                rows.get((k + 1 + shift) % n_az),
+            ) else {
                 continue;
             };
             for (e, bin) in spectrum.bins.iter().enumerate() {
@@ -639,8 +701,8 @@ pub fn windy_pattern(
                 // u along drop size (p00 → p10), v along azimuth (p00 → p01).
                 let len_u = (p10 - p00).norm().max((p11 - p01).norm());
                 let len_v = (p01 - p00).norm().max((p11 - p10).norm());
-                let nu = ((len_u / (0.5 * cell)).ceil() as usize).clamp(1, 32);
-                let nv = ((len_v / (0.5 * cell)).ceil() as usize).clamp(1, 64);
+                let nu = ((len_u / cell).ceil() as usize).clamp(1, 32);
+                let nv = ((len_v / cell).ceil() as usize).clamp(1, 64);
                 weights.clear();
                 let mut sum = 0.0;
                 for iu in 0..nu {
@@ -774,6 +836,34 @@ mod tests {
             }
         }
         assert!((g_sum / p_sum - 1.0).abs() < 0.03, "{}", g_sum / p_sum);
+    }
+
+    #[test]
+    fn turned_copies_share_flights_without_changing_the_pattern() {
+        // Two identical arms half a turn apart (36 of 72 steps) in wind: the
+        // shared sweep must give exactly twice one arm's pattern.
+        let opts = PatternOptions {
+            bins: 8,
+            azimuths: 72,
+            ..PatternOptions::default()
+        };
+        let e = env(2.0);
+        let pair = windy_pattern(&jets(), &SpraySpec::default(), &e, &opts).unwrap();
+        let one = windy_pattern(&jets()[..1], &SpraySpec::default(), &e, &opts).unwrap();
+        assert_eq!((pair.nx, pair.ny), (one.nx, one.ny));
+        for (p, o) in pair.rate_mm_h.iter().zip(&one.rate_mm_h) {
+            assert!((p - 2.0 * o).abs() <= 1e-9 * (1.0 + o.abs()));
+        }
+        // Not a whole number of steps apart: no sharing, still conserved.
+        let mut odd = jets();
+        odd[1] = odd[0].turned(1.0);
+        let g = windy_pattern(&odd, &SpraySpec::default(), &e, &opts).unwrap();
+        assert!((g.applied_flow_m3_s() / g.flow_m3_s - 1.0).abs() < 1e-9);
+        assert_eq!(same_jet_turned(&odd[0], &odd[1], 2.0 * PI / 72.0, 72), None);
+        assert_eq!(
+            same_jet_turned(&jets()[0], &jets()[1], 2.0 * PI / 72.0, 72),
+            Some(36)
+        );
     }
 
     #[test]

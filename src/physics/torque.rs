@@ -55,14 +55,14 @@ pub fn absolute_velocity(arm: &Arm, jet_speed_relative_m_s: f64, omega_rad_s: f6
     jet_direction(arm) * jet_speed_relative_m_s + (Vector3::z() * omega_rad_s).cross(&r)
 }
 
-/// The jets leaving every flowing nozzle at one state.
+/// The jet of every arm at one state, in arm order (an idle nozzle's jet has
+/// zero flow and leaves at the arm's own speed).
 pub fn jets(design: &Design, state: &SupplyState) -> Vec<JetExit> {
     design
         .rotor
         .arms
         .iter()
         .zip(&state.nozzles)
-        .filter(|(_, n)| n.flowing)
         .map(|(arm, n)| JetExit {
             position_m: exit_position(arm),
             velocity_m_s: absolute_velocity(arm, n.jet_speed_relative_m_s, state.omega_rad_s),

@@ -333,7 +333,7 @@ impl Scenario {
             let length_m = arm.tube.length.map(|l| {
                 let len = c.positive(&p("tube.length"), l);
                 let span = radius_m - hub_radius_m;
-                if len > 0.0 && span > 0.0 && len < span * (1.0 - 1e-12) {
+                if len > 0.0 && span > 0.0 && len < span * (1.0 - 1e-9) {
                     c.push(
                         &p("tube.length"),
                         l,

@@ -141,6 +141,8 @@ struct VersionProbe {
 /// name). The format version is checked first, then the syntax and shape,
 /// then every value (see [`Scenario::to_design`]).
 pub fn load_str(text: &str, origin: &str) -> Result<Scenario, ScenarioError> {
+    // Some editors start a file with a byte-order mark; it is not content.
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let options = ron::Options::default();
     if let Ok(VersionProbe {
         version: Some(found),
@@ -184,10 +186,11 @@ fn parse(text: &str, origin: &str, options: &ron::Options) -> Result<Scenario, S
             }
             (_, field) => field,
         };
+        let (line, column) = next_token(text, err.span.start.line, err.span.start.col);
         ScenarioError::Syntax {
             origin: origin.to_string(),
-            line: err.span.start.line,
-            column: err.span.start.col,
+            line,
+            column,
             message: describe(&err.code, field.as_deref()),
             field,
         }
@@ -204,6 +207,33 @@ fn parse(text: &str, origin: &str, options: &ron::Options) -> Result<Scenario, S
     };
     de.end().map_err(|e| syntax(de.span_error(e), None))?;
     Ok(scenario)
+}
+
+/// RON reports some errors at the whitespace before the offending value;
+/// a technician wants the value itself. Moves a 1-based (line, column) over
+/// spaces and line breaks to the next character, if there is one.
+fn next_token(text: &str, line: usize, column: usize) -> (usize, usize) {
+    let Some(line_text) = text.split('\n').nth(line.saturating_sub(1)) else {
+        return (line, column);
+    };
+    let rest_of_line = line_text.chars().skip(column.saturating_sub(1));
+    let (mut l, mut c) = (line, column);
+    let later_lines = text.split('\n').skip(line);
+    let mut chars = rest_of_line
+        .map(Some)
+        .chain(std::iter::once(None))
+        .chain(later_lines.flat_map(|t| t.chars().map(Some).chain(std::iter::once(None))));
+    loop {
+        match chars.next() {
+            Some(Some(ch)) if ch.is_whitespace() => c += 1,
+            Some(Some(_)) => return (l, c),
+            Some(None) => {
+                l += 1;
+                c = 1;
+            }
+            None => return (line, column),
+        }
+    }
 }
 
 /// Reads and checks a scenario file.

@@ -352,7 +352,7 @@ impl DropSize {
         match self {
             DropSize::Auto => None,
             DropSize::mm(v) => Some(Length::mm(v).si()),
-            DropSize::um(v) => Some(v * 1.0e-6),
+            DropSize::um(v) => Some(v / 1.0e6),
             DropSize::r#in(v) => Some(Length::r#in(v).si()),
         }
     }

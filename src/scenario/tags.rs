@@ -11,9 +11,14 @@ use std::fmt;
 
 use serde::{Deserialize, Serialize};
 
+use std::f64::consts::PI;
+
 use crate::units::factor::*;
 use crate::units::UnitSystem;
 
+/// Each tag's conversion is `si = (number − zero) · num / den` with exact
+/// `num` or `den`, so round numbers convert exactly (`F(122)` is 50 °C).
+///
 /// Rounds to 12 significant figures, so a value converted out of SI is written
 /// as `2.4`, not `2.4000000000000004`. The relative change is at most 5·10⁻¹².
 pub(crate) fn tidy(x: f64) -> f64 {
@@ -27,7 +32,7 @@ macro_rules! unit_tag {
     (
         $(#[$meta:meta])*
         $name:ident {
-            $( $(#[$vmeta:meta])* $variant:ident => $scale:expr, $offset:expr; )+
+            $( $(#[$vmeta:meta])* $variant:ident => $num:expr, $den:expr, $zero:expr; )+
         }
     ) => {
         $(#[$meta])*
@@ -46,7 +51,7 @@ macro_rules! unit_tag {
             /// The value in SI units (°C for temperatures).
             pub fn si(self) -> f64 {
                 match self {
-                    $( $name::$variant(v) => v * $scale + $offset, )+
+                    $( $name::$variant(v) => (v - $zero) * $num / $den, )+
                 }
             }
 
@@ -68,7 +73,7 @@ macro_rules! unit_tag {
             /// 12 significant figures so it reads cleanly in a file).
             pub fn with_si(self, si: f64) -> Self {
                 match self {
-                    $( $name::$variant(_) => $name::$variant(tidy((si - $offset) / $scale)), )+
+                    $( $name::$variant(_) => $name::$variant(tidy(si * $den / $num + $zero)), )+
                 }
             }
         }
@@ -96,15 +101,15 @@ unit_tag! {
     /// A length: `mm(160)`, `cm(16)`, `m(9)`, `in(6.5)`, `ft(30)`.
     Length {
         /// Millimetres.
-        mm => 1.0e-3, 0.0;
+        mm => 1.0, 1.0e3, 0.0;
         /// Centimetres.
-        cm => 1.0e-2, 0.0;
+        cm => 1.0, 1.0e2, 0.0;
         /// Metres.
-        m => 1.0, 0.0;
+        m => 1.0, 1.0, 0.0;
         /// International inches (0.0254 m).
-        r#in => INCH_M, 0.0;
+        r#in => INCH_M, 1.0, 0.0;
         /// International feet (0.3048 m).
-        ft => FOOT_M, 0.0;
+        ft => FOOT_M, 1.0, 0.0;
     }
 }
 
@@ -112,13 +117,13 @@ unit_tag! {
     /// A gauge pressure: `kPa(280)`, `bar(2.8)`, `MPa(0.28)`, `psi(40)`.
     Pressure {
         /// Kilopascals.
-        kPa => 1.0e3, 0.0;
+        kPa => 1.0e3, 1.0, 0.0;
         /// Bar (100 kPa).
-        bar => BAR_PA, 0.0;
+        bar => BAR_PA, 1.0, 0.0;
         /// Megapascals.
-        MPa => 1.0e6, 0.0;
+        MPa => 1.0e6, 1.0, 0.0;
         /// Pounds-force per square inch.
-        psi => PSI_PA, 0.0;
+        psi => PSI_PA, 1.0, 0.0;
     }
 }
 
@@ -126,13 +131,13 @@ unit_tag! {
     /// A volumetric flow: `L_min(12)`, `L_s(0.2)`, `m3_h(0.7)`, `gpm(3.2)`.
     FlowRate {
         /// Litres per minute.
-        L_min => LITRE_M3 / 60.0, 0.0;
+        L_min => 1.0, 60.0e3, 0.0;
         /// Litres per second.
-        L_s => LITRE_M3, 0.0;
+        L_s => 1.0, 1.0e3, 0.0;
         /// Cubic metres per hour.
-        m3_h => 1.0 / 3600.0, 0.0;
+        m3_h => 1.0, 3600.0, 0.0;
         /// US gallons per minute.
-        gpm => US_GALLON_M3 / 60.0, 0.0;
+        gpm => US_GALLON_M3, 60.0, 0.0;
     }
 }
 
@@ -140,9 +145,9 @@ unit_tag! {
     /// An angle: `deg(22)`, `rad(0.38)`.
     Angle {
         /// Degrees.
-        deg => DEGREE_RAD, 0.0;
+        deg => PI, 180.0, 0.0;
         /// Radians.
-        rad => 1.0, 0.0;
+        rad => 1.0, 1.0, 0.0;
     }
 }
 
@@ -150,9 +155,9 @@ unit_tag! {
     /// A temperature: `C(18)`, `F(65)`.
     Temperature {
         /// Degrees Celsius.
-        C => 1.0, 0.0;
+        C => 1.0, 1.0, 0.0;
         /// Degrees Fahrenheit.
-        F => FAHRENHEIT_STEP_K, -32.0 * FAHRENHEIT_STEP_K;
+        F => 1.0, 1.8, 32.0;
     }
 }
 
@@ -160,11 +165,11 @@ unit_tag! {
     /// A torque: `N_m(0.02)`, `lbf_in(0.18)`, `lbf_ft(0.015)`.
     Torque {
         /// Newton metres.
-        N_m => 1.0, 0.0;
+        N_m => 1.0, 1.0, 0.0;
         /// Pound-force inches.
-        lbf_in => LBF_IN_N_M, 0.0;
+        lbf_in => LBF_IN_N_M, 1.0, 0.0;
         /// Pound-force feet.
-        lbf_ft => LBF_FT_N_M, 0.0;
+        lbf_ft => LBF_FT_N_M, 1.0, 0.0;
     }
 }
 
@@ -172,13 +177,13 @@ unit_tag! {
     /// A mass: `g(180)`, `kg(0.2)`, `oz(6)`, `lb(0.4)`.
     Mass {
         /// Grams.
-        g => 1.0e-3, 0.0;
+        g => 1.0, 1.0e3, 0.0;
         /// Kilograms.
-        kg => 1.0, 0.0;
+        kg => 1.0, 1.0, 0.0;
         /// Avoirdupois ounces.
-        oz => OUNCE_KG, 0.0;
+        oz => OUNCE_KG, 1.0, 0.0;
         /// Avoirdupois pounds.
-        lb => POUND_KG, 0.0;
+        lb => POUND_KG, 1.0, 0.0;
     }
 }
 
@@ -186,11 +191,11 @@ unit_tag! {
     /// An area: `mm2(110)`, `cm2(1.1)`, `in2(0.17)`.
     Area {
         /// Square millimetres.
-        mm2 => 1.0e-6, 0.0;
+        mm2 => 1.0, 1.0e6, 0.0;
         /// Square centimetres.
-        cm2 => 1.0e-4, 0.0;
+        cm2 => 1.0, 1.0e4, 0.0;
         /// Square inches.
-        in2 => INCH_M * INCH_M, 0.0;
+        in2 => INCH_M * INCH_M, 1.0, 0.0;
     }
 }
 
@@ -198,13 +203,13 @@ unit_tag! {
     /// A speed: `m_s(2)`, `km_h(7)`, `mph(4)`, `ft_s(6)`.
     Speed {
         /// Metres per second.
-        m_s => 1.0, 0.0;
+        m_s => 1.0, 1.0, 0.0;
         /// Kilometres per hour.
-        km_h => 1.0 / 3.6, 0.0;
+        km_h => 1.0, 3.6, 0.0;
         /// Miles per hour.
-        mph => MPH_M_S, 0.0;
+        mph => MPH_M_S, 1.0, 0.0;
         /// Feet per second.
-        ft_s => FOOT_M, 0.0;
+        ft_s => FOOT_M, 1.0, 0.0;
     }
 }
 
@@ -212,9 +217,9 @@ unit_tag! {
     /// A mass moment of inertia: `kg_m2(0.0012)`, `lb_in2(4.1)`.
     MomentOfInertia {
         /// Kilogram square metres.
-        kg_m2 => 1.0, 0.0;
+        kg_m2 => 1.0, 1.0, 0.0;
         /// Pound square inches.
-        lb_in2 => LB_IN2_KG_M2, 0.0;
+        lb_in2 => LB_IN2_KG_M2, 1.0, 0.0;
     }
 }
 
@@ -222,11 +227,11 @@ unit_tag! {
     /// A density: `kg_m3(8500)`, `g_cm3(8.5)`, `lb_ft3(530)`.
     Density {
         /// Kilograms per cubic metre.
-        kg_m3 => 1.0, 0.0;
+        kg_m3 => 1.0, 1.0, 0.0;
         /// Grams per cubic centimetre.
-        g_cm3 => 1.0e3, 0.0;
+        g_cm3 => 1.0e3, 1.0, 0.0;
         /// Pounds per cubic foot.
-        lb_ft3 => LB_FT3_KG_M3, 0.0;
+        lb_ft3 => LB_FT3_KG_M3, 1.0, 0.0;
     }
 }
 
@@ -449,6 +454,12 @@ mod tests {
         assert!((Temperature::F(212.0).si() - 100.0).abs() < 1e-12);
         // 40 psi = 275.79 kPa (NIST SP 811 factor 6.894 757 kPa/psi).
         assert!((Pressure::psi(40.0).si() - 275_790.29).abs() < 0.01);
+        // Round values convert exactly, so range limits hold exactly.
+        assert_eq!(Temperature::F(122.0).si(), 50.0);
+        assert_eq!(Temperature::F(32.0).si(), 0.0);
+        assert_eq!(Length::mm(2.4).si(), 0.0024);
+        assert_eq!(Angle::deg(90.0).si(), std::f64::consts::FRAC_PI_2);
+        assert_eq!(FlowRate::L_min(12.0).si(), 0.0002);
         assert_eq!(Length::r#in(1.0).tag(), "in");
         assert_eq!(Length::r#in(6.5).to_string(), "in(6.5)");
         assert_eq!(Length::TAGS, &["mm", "cm", "m", "in", "ft"]);

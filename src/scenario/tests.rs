@@ -284,6 +284,14 @@ fn a_value_is_never_clamped() {
         design.rotor.arms[0].nozzle.elevation_rad,
         90f64.to_radians()
     );
+    // The water range 0–50 °C is 32–122 °F, ends included.
+    for t in ["F(32)", "F(122)", "C(0)", "C(50)"] {
+        let text = MINIMAL.replace(
+            "name: \"Minimal\",",
+            &format!("name: \"M\", water: (temperature: {t}),"),
+        );
+        load(&text).unwrap_or_else(|e| panic!("{t}: {e}"));
+    }
     let bad = MINIMAL.replace("elevation: deg(25)", "elevation: deg(90.5)");
     assert!(load(&bad).is_err());
     // The edge cases are inclusive where the physics allows: cd = 1, hub 0.
@@ -488,4 +496,28 @@ fn load_file_names_the_file() {
     let good = dir.path().join("good.ron");
     save_atomic(&good, MINIMAL).unwrap();
     assert_eq!(load_file(&good).unwrap().name, "Minimal");
+}
+
+#[test]
+fn positions_point_at_the_value_not_the_space_before_it() {
+    let text = "a:  x\n  \n  y";
+    assert_eq!(next_token(text, 1, 3), (1, 5));
+    assert_eq!(next_token(text, 1, 6), (3, 3));
+    assert_eq!(next_token(text, 1, 1), (1, 1));
+    // Past the end: unchanged.
+    assert_eq!(next_token("a  ", 1, 2), (1, 2));
+    assert_eq!(next_token("a", 7, 2), (7, 2));
+    // Columns count characters, not bytes.
+    assert_eq!(next_token("é  x", 1, 2), (1, 4));
+}
+
+#[test]
+fn windows_line_ends_and_a_byte_order_mark_are_fine() {
+    let text = format!("\u{feff}{}", MINIMAL.replace('\n', "\r\n"));
+    assert_eq!(load(&text).unwrap(), load(MINIMAL).unwrap());
+    // Positions still count lines and characters as an editor shows them.
+    let bad = text.replace("cd: 0.96", "cdd: 0.96");
+    let e = err_of(&bad);
+    let (line, column, _, _) = syntax(&e);
+    assert_eq!((line, column), (11, 83), "{e}");
 }

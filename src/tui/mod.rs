@@ -45,12 +45,9 @@ pub fn reset_terminal() {
     let _ = out.flush();
 }
 
+/// The crash hook with the terminal put back first (see [`crate::crash`]).
 fn install_panic_hook() {
-    let previous = std::panic::take_hook();
-    std::panic::set_hook(Box::new(move |info| {
-        reset_terminal();
-        previous(info);
-    }));
+    crate::crash::install(reset_terminal);
 }
 
 fn setup() -> io::Result<Terminal<CrosstermBackend<io::Stdout>>> {

@@ -1,0 +1,511 @@
+//! Target search: the value of one design parameter that gives a wanted speed
+//! (or, through a caller's closure, a wanted wetted radius), the rest fixed.
+//!
+//! The search runs on the full model: the parameter's physical range is
+//! scanned on a grid (solving the design at every point, in parallel), each
+//! sign change of `result − target` is polished with Brent's method, and the
+//! root nearest the design's present value is taken. When no grid interval
+//! brackets the target, the best grid point is refined by a golden-section
+//! search on |result − target| and returned flagged *unreachable*, with the
+//! result it gives.
+//!
+//! Per-arm parameters move all arms together and keep their offsets (see
+//! [`super::study::Parameter`]); the value searched is the mean over arms.
+//!
+//! Physical ranges (of every arm, so offsets stay inside them):
+//! deflection −89°…89° (beyond 90° the jets brake), elevation 0…89°, arm radius
+//! 1.2 × hub radius (at least 20 mm) to 2.5 m, nozzle 0.2 mm to the arm tube's
+//! bore; brakes from 0 to the coefficient that takes the whole stall torque at
+//! 1 rpm (viscous c₁ = T_stall/ω₁, quadratic c₂ = T_stall/ω₁², ω₁ = 1 rpm).
+
+use rayon::prelude::*;
+
+use super::balance::{rad_s, rpm, solve, solve_speed, SpinReport};
+use super::design::Design;
+use super::root::{brent, RootError, Tolerance};
+use super::study::{Parameter, ParameterError};
+
+/// Points on the scan grid of a parameter's range.
+pub const SCAN_POINTS: usize = 41;
+
+/// The parameter a target search adjusts.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum Adjust {
+    /// Nozzle deflection, rad (mean over arms; shifted).
+    Deflection,
+    /// Nozzle elevation, rad (mean over arms; shifted).
+    Elevation,
+    /// Arm radius, m (mean over arms; scaled).
+    Radius,
+    /// Nozzle diameter, m (mean over arms; scaled).
+    Nozzle,
+    /// Viscous brake c₁, N·m·s/rad.
+    Viscous,
+    /// Quadratic brake c₂, N·m·s²/rad².
+    Quadratic,
+}
+
+impl Adjust {
+    /// Every adjustable parameter.
+    pub const ALL: [Adjust; 6] = [
+        Adjust::Deflection,
+        Adjust::Elevation,
+        Adjust::Radius,
+        Adjust::Nozzle,
+        Adjust::Viscous,
+        Adjust::Quadratic,
+    ];
+
+    /// The study parameter it is.
+    pub fn parameter(self) -> Parameter {
+        match self {
+            Adjust::Deflection => Parameter::Deflection,
+            Adjust::Elevation => Parameter::Elevation,
+            Adjust::Radius => Parameter::Radius,
+            Adjust::Nozzle => Parameter::Nozzle,
+            Adjust::Viscous => Parameter::Viscous,
+            Adjust::Quadratic => Parameter::Quadratic,
+        }
+    }
+
+    /// Name as on the command line (`--adjust NAME`).
+    pub fn name(self) -> &'static str {
+        self.parameter().name()
+    }
+
+    /// The adjustment with this name (`brake` means the viscous brake).
+    pub fn from_name(name: &str) -> Option<Adjust> {
+        if name.eq_ignore_ascii_case("brake") {
+            return Some(Adjust::Viscous);
+        }
+        Adjust::ALL
+            .into_iter()
+            .find(|a| a.name().eq_ignore_ascii_case(name))
+    }
+
+    /// SI unit of the value.
+    pub fn unit(self) -> &'static str {
+        self.parameter().unit()
+    }
+
+    /// The range searched for the value, SI (see the module docs).
+    pub fn range(self, design: &Design) -> Result<(f64, f64), TargetError> {
+        let arms = &design.rotor.arms;
+        if arms.is_empty() {
+            return Err(TargetError::NoArms);
+        }
+        let current = self.current(design)?;
+        let deg = std::f64::consts::PI / 180.0;
+        // Mean-value range such that every arm stays inside [lo_i, hi_i].
+        let shifted = |values: Vec<f64>, lo: f64, hi: f64| {
+            let below = values.iter().map(|v| current - v).fold(f64::MIN, f64::max);
+            let above = values.iter().map(|v| v - current).fold(f64::MIN, f64::max);
+            (lo + below, hi - above)
+        };
+        let scaled = |pairs: Vec<(f64, f64, f64)>| {
+            let lo = pairs
+                .iter()
+                .map(|(v, lo, _)| lo / v)
+                .fold(f64::MIN, f64::max);
+            let hi = pairs
+                .iter()
+                .map(|(v, _, hi)| hi / v)
+                .fold(f64::MAX, f64::min);
+            (current * lo, current * hi.max(lo))
+        };
+        let range = match self {
+            Adjust::Deflection => shifted(
+                arms.iter().map(|a| a.nozzle.deflection_rad).collect(),
+                -89.0 * deg,
+                89.0 * deg,
+            ),
+            Adjust::Elevation => shifted(
+                arms.iter().map(|a| a.nozzle.elevation_rad).collect(),
+                0.0,
+                89.0 * deg,
+            ),
+            Adjust::Radius => {
+                let lo = (1.2 * design.rotor.hub_radius_m).max(0.02);
+                scaled(arms.iter().map(|a| (a.radius_m, lo, 2.5)).collect())
+            }
+            Adjust::Nozzle => scaled(
+                arms.iter()
+                    .map(|a| (a.nozzle.diameter_m, 0.2e-3, a.tube.bore_m.max(0.2e-3)))
+                    .collect(),
+            ),
+            Adjust::Viscous | Adjust::Quadratic => {
+                let stall = solve_speed(design).stall_torque_n_m.max(1e-9);
+                let w1 = rad_s(1.0);
+                let top = if self == Adjust::Viscous {
+                    stall / w1
+                } else {
+                    stall / (w1 * w1)
+                };
+                (0.0, top.max(2.0 * current))
+            }
+        };
+        if !(range.0.is_finite() && range.1.is_finite()) || range.0 >= range.1 {
+            return Err(TargetError::NoRange {
+                name: self.name(),
+                lo: range.0,
+                hi: range.1,
+            });
+        }
+        Ok(range)
+    }
+
+    fn current(self, design: &Design) -> Result<f64, TargetError> {
+        self.parameter()
+            .value(design)
+            .ok_or(TargetError::NoArms)
+            .and_then(|v| {
+                if matches!(self, Adjust::Radius | Adjust::Nozzle) && v <= 0.0 {
+                    Err(TargetError::NoRange {
+                        name: self.name(),
+                        lo: v,
+                        hi: v,
+                    })
+                } else {
+                    Ok(v)
+                }
+            })
+    }
+
+    /// The scan grid over `range`: linear for angles, geometric for sizes,
+    /// zero then geometric for brakes.
+    fn grid(self, (lo, hi): (f64, f64)) -> Vec<f64> {
+        let n = SCAN_POINTS;
+        let t = |k: usize| k as f64 / (n - 1) as f64;
+        match self {
+            Adjust::Deflection | Adjust::Elevation => {
+                (0..n).map(|k| lo + (hi - lo) * t(k)).collect()
+            }
+            Adjust::Radius | Adjust::Nozzle => (0..n).map(|k| lo * (hi / lo).powf(t(k))).collect(),
+            Adjust::Viscous | Adjust::Quadratic => {
+                let floor = hi * 1e-7;
+                std::iter::once(lo)
+                    .chain((0..n - 1).map(|k| floor * (hi / floor).powf(k as f64 / (n - 2) as f64)))
+                    .collect()
+            }
+        }
+    }
+}
+
+/// A wetted-radius function supplied by the throw model: the wetted radius of
+/// a design, m (None when there is none, e.g. the rotor stalls).
+pub type ThrowFn = dyn Fn(&Design) -> Option<f64> + Sync;
+
+/// What the search aims at.
+#[derive(Clone, Copy)]
+pub enum Goal<'a> {
+    /// An operating speed, rpm.
+    Rpm(f64),
+    /// A wetted radius, m, computed by the caller's closure on each trial design
+    /// (None when the design gives no throw, e.g. it stalls).
+    Throw {
+        /// The wanted wetted radius, m.
+        radius_m: f64,
+        /// The wetted radius of a design, m.
+        throw: &'a ThrowFn,
+    },
+}
+
+impl Goal<'_> {
+    fn target(&self) -> f64 {
+        match *self {
+            Goal::Rpm(r) => r,
+            Goal::Throw { radius_m, .. } => radius_m,
+        }
+    }
+
+    fn metric(&self, design: &Design) -> Option<f64> {
+        match self {
+            Goal::Rpm(_) => solve_speed(design)
+                .operating
+                .map(|op| rpm(op.omega_rad_s()))
+                .filter(|r| r.is_finite()),
+            Goal::Throw { throw, .. } => throw(design).filter(|r| r.is_finite()),
+        }
+    }
+
+    /// The report key of the achieved value: `achieved_rpm` or `achieved_throw_m`.
+    pub fn achieved_key(&self) -> &'static str {
+        match self {
+            Goal::Rpm(_) => "achieved_rpm",
+            Goal::Throw { .. } => "achieved_throw_m",
+        }
+    }
+}
+
+/// A target search that cannot be run.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum TargetError {
+    /// The design has no arms to adjust.
+    #[error("the design has no arms to adjust")]
+    NoArms,
+    /// The target is not a positive finite number.
+    #[error("target {0} is not a positive number")]
+    BadTarget(f64),
+    /// The parameter has no usable range on this design.
+    #[error("`{name}` has no usable range on this design ({lo} to {hi})")]
+    NoRange {
+        /// The parameter's name.
+        name: &'static str,
+        /// Lower end found.
+        lo: f64,
+        /// Upper end found.
+        hi: f64,
+    },
+    /// The design could not take a value of the range.
+    #[error(transparent)]
+    Parameter(#[from] ParameterError),
+}
+
+/// The outcome of a target search.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TargetResult {
+    /// What was adjusted.
+    pub adjust: Adjust,
+    /// The value found (or the nearest achievable), SI.
+    pub value: f64,
+    /// SI unit of `value`.
+    pub unit: &'static str,
+    /// The design's value before the search, SI.
+    pub start_value: f64,
+    /// The range searched, SI.
+    pub range: (f64, f64),
+    /// The target asked for (rpm or m).
+    pub target: f64,
+    /// What the adjusted design gives (rpm or m); None when no value in the
+    /// range gives a result at all (the rotor stalls everywhere).
+    pub achieved: Option<f64>,
+    /// True when `achieved` equals the target (within the search tolerance).
+    pub reachable: bool,
+    /// The adjusted design.
+    pub design: Design,
+    /// The adjusted design solved.
+    pub report: SpinReport,
+    /// A polishing step that failed, if any (the bracket is in it).
+    pub search_error: Option<RootError>,
+}
+
+/// Relative tolerance on the goal for Brent's method.
+const GOAL_TOLERANCE: f64 = 1e-7;
+
+/// Find the value of `adjust` that makes `design` reach `goal`.
+pub fn target(
+    design: &Design,
+    adjust: Adjust,
+    goal: Goal<'_>,
+) -> Result<TargetResult, TargetError> {
+    let want = goal.target();
+    if !(want.is_finite() && want > 0.0) {
+        return Err(TargetError::BadTarget(want));
+    }
+    let parameter = adjust.parameter();
+    let start_value = adjust.current(design)?;
+    let range = adjust.range(design)?;
+    let with = |v: f64| -> Result<Design, ParameterError> {
+        let mut d = design.clone();
+        parameter.apply(&mut d, v)?;
+        Ok(d)
+    };
+    // Check the ends once, so that an error is reported, not skipped.
+    with(range.0)?;
+    with(range.1)?;
+    let eval = |v: f64| with(v).ok().and_then(|d| goal.metric(&d));
+
+    let grid = adjust.grid(range);
+    let scan: Vec<Option<f64>> = grid.par_iter().map(|&v| eval(v)).collect();
+
+    // Every bracketed crossing, polished by Brent.
+    let mut roots = Vec::new();
+    let mut search_error = None;
+    for ((v0, m0), (v1, m1)) in grid.iter().zip(&scan).zip(grid.iter().zip(&scan).skip(1)) {
+        let (Some(m0), Some(m1)) = (m0, m1) else {
+            continue;
+        };
+        let (g0, g1) = (m0 - want, m1 - want);
+        if g0 == 0.0 {
+            roots.push(*v0);
+            continue;
+        }
+        if g0.signum() == g1.signum() || g1 == 0.0 {
+            continue;
+        }
+        let tol = Tolerance {
+            x: 1e-13 * (range.1 - range.0),
+            f: GOAL_TOLERANCE * want,
+            max_iter: 200,
+        };
+        // A trial that gives no result inside the bracket cannot be signed;
+        // push Brent back toward the end it came from.
+        let f = |v: f64| eval(v).map_or(g0, |m| m - want);
+        match brent(f, *v0, *v1, tol) {
+            Ok(v) => roots.push(v),
+            Err(e) => search_error = Some(e),
+        }
+    }
+    if let Some((v, Some(m))) = grid.last().zip(scan.last()) {
+        if m - want == 0.0 {
+            roots.push(*v);
+        }
+    }
+
+    let nearest_root = roots
+        .iter()
+        .copied()
+        .filter_map(|v| eval(v).map(|m| (v, m)))
+        .filter(|(_, m)| ((m - want) / want).abs() <= 1e3 * GOAL_TOLERANCE)
+        .min_by(|a, b| {
+            (a.0 - start_value)
+                .abs()
+                .total_cmp(&(b.0 - start_value).abs())
+        });
+
+    let (value, achieved, reachable) = match nearest_root {
+        Some((v, m)) => (v, Some(m), true),
+        None => match closest_point(&grid, &scan, want, &eval) {
+            Some((v, m)) => (v, Some(m), false),
+            None => (start_value, None, false),
+        },
+    };
+    let adjusted = with(value)?;
+    let report = solve(&adjusted);
+    Ok(TargetResult {
+        adjust,
+        value,
+        unit: adjust.unit(),
+        start_value,
+        range,
+        target: want,
+        achieved,
+        reachable,
+        design: adjusted,
+        report,
+        search_error,
+    })
+}
+
+/// The grid point nearest the target, refined by golden section between its
+/// neighbours. Returns (value, result).
+fn closest_point(
+    grid: &[f64],
+    scan: &[Option<f64>],
+    want: f64,
+    eval: &(dyn Fn(f64) -> Option<f64> + Sync),
+) -> Option<(f64, f64)> {
+    let (k, m) = scan
+        .iter()
+        .enumerate()
+        .filter_map(|(k, m)| m.map(|m| (k, m)))
+        .min_by(|a, b| (a.1 - want).abs().total_cmp(&(b.1 - want).abs()))?;
+    let v = *grid.get(k)?;
+    let lo = *grid.get(k.saturating_sub(1))?;
+    let hi = *grid.get(k + 1).unwrap_or(&v);
+    let miss = |x: f64| eval(x).map_or(f64::INFINITY, |m| (m - want).abs());
+    let phi = 0.5 * (5f64.sqrt() - 1.0);
+    let (mut a, mut b) = (lo, hi);
+    let mut c = b - phi * (b - a);
+    let mut d = a + phi * (b - a);
+    let (mut fc, mut fd) = (miss(c), miss(d));
+    for _ in 0..40 {
+        if fc < fd {
+            b = d;
+            d = c;
+            fd = fc;
+            c = b - phi * (b - a);
+            fc = miss(c);
+        } else {
+            a = c;
+            c = d;
+            fc = fd;
+            d = a + phi * (b - a);
+            fd = miss(d);
+        }
+    }
+    let x = 0.5 * (a + b);
+    match eval(x) {
+        Some(mx) if (mx - want).abs() < (m - want).abs() => Some((x, mx)),
+        _ => Some((v, m)),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::physics::fixtures::three_arm_rotor;
+
+    fn rpm_of(d: &Design) -> f64 {
+        rpm(solve(d).operating.expect("running").omega_rad_s())
+    }
+
+    #[test]
+    fn deflection_for_a_lower_speed_round_trips() {
+        let d = three_arm_rotor();
+        let base = rpm_of(&d);
+        let want = 0.6 * base;
+        let r = target(&d, Adjust::Deflection, Goal::Rpm(want)).unwrap();
+        assert!(r.reachable, "{r:?}");
+        assert!(r.value > r.start_value, "more deflection, less speed");
+        let got = rpm_of(&r.design);
+        assert!(((got - want) / want).abs() < 1e-3, "{got} vs {want}");
+    }
+
+    #[test]
+    fn an_unreachable_speed_gives_the_nearest_and_says_so() {
+        let d = three_arm_rotor();
+        // Far more than even zero deflection can give with this brake.
+        let r = target(&d, Adjust::Deflection, Goal::Rpm(1e5)).unwrap();
+        assert!(!r.reachable);
+        let achieved = r.achieved.unwrap();
+        assert!(achieved < 1e5);
+        // Nearest: the fastest deflection, straight back (|δ| small).
+        assert!(
+            r.value.abs() < 3f64.to_radians(),
+            "{}",
+            r.value.to_degrees()
+        );
+        assert!(achieved >= rpm_of(&d));
+    }
+
+    #[test]
+    fn brake_for_a_target_speed() {
+        let d = three_arm_rotor();
+        let r = target(&d, Adjust::Viscous, Goal::Rpm(120.0)).unwrap();
+        assert!(r.reachable, "{r:?}");
+        assert!(r.value > d.friction.brake.viscous);
+        assert!((rpm_of(&r.design) / 120.0 - 1.0).abs() < 1e-3);
+    }
+
+    #[test]
+    fn throw_goal_uses_the_closure() {
+        // A stand-in throw: proportional to arm radius, so the target 2× radius
+        // is the radius that makes it 2× the present value.
+        let d = three_arm_rotor();
+        let throw = |d: &Design| Some(50.0 * d.rotor.arms[0].radius_m);
+        let r = target(
+            &d,
+            Adjust::Radius,
+            Goal::Throw {
+                radius_m: 10.0,
+                throw: &throw,
+            },
+        )
+        .unwrap();
+        assert!(r.reachable);
+        assert!((r.value - 0.2).abs() < 1e-6, "{}", r.value);
+        assert_eq!(Goal::Rpm(1.0).achieved_key(), "achieved_rpm");
+    }
+
+    #[test]
+    fn names_and_bad_targets() {
+        assert_eq!(Adjust::from_name("brake"), Some(Adjust::Viscous));
+        assert_eq!(Adjust::from_name("nozzle"), Some(Adjust::Nozzle));
+        let d = three_arm_rotor();
+        assert!(matches!(
+            target(&d, Adjust::Nozzle, Goal::Rpm(-3.0)),
+            Err(TargetError::BadTarget(_))
+        ));
+    }
+}
