@@ -26,6 +26,8 @@ use super::theme::Theme;
 use super::worker::{Done, Job, SprayResult, Worker};
 use crate::physics::balance::{solve, table_top_speed, SpinModel, SpinReport, TableRow};
 use crate::physics::design::{Bearing, Design, Washer, WasherRule};
+use crate::physics::field::{FieldCheck, FieldReading, FlowReading, RotationReading, ThrowReading};
+use crate::physics::study::Comparison;
 use crate::scenario::{self, Scenario, ScenarioError};
 use crate::units::{self, Dimension as D, UnitSystem};
 
@@ -146,6 +148,10 @@ pub enum Measure {
     Pressure,
     /// Rotation: rpm, seconds per turn, or turns over a time.
     Rotation,
+    /// Flow: a rate, or a volume caught over a time (optional).
+    Flow,
+    /// Wetted radius (optional).
+    Throw,
 }
 
 /// Text being typed.
@@ -201,45 +207,48 @@ pub struct Pinned {
     pub label: String,
     /// The design.
     pub design: Design,
-    /// Its spin solution.
-    pub report: SpinReport,
-    /// Its spray results, once the worker has them.
-    pub spray: Option<Box<SprayResult>>,
-    id: u64,
 }
 
-/// Measurements typed in the Field view (SI).
+/// Readings typed in the Field view (SI).
 #[derive(Debug, Clone, Copy, PartialEq, Default)]
 pub struct Measured {
     /// Inlet gauge pressure, Pa.
     pub pressure_pa: Option<f64>,
-    /// Rotation, as typed.
-    pub rotation: Option<Rotation>,
+    /// Rotation, as taken.
+    pub rotation: Option<RotationReading>,
+    /// Flow, if measured.
+    pub flow: Option<FlowReading>,
+    /// Wetted radius, m, if measured.
+    pub throw_m: Option<f64>,
 }
 
-/// A measured rotation in the form it was taken.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub enum Rotation {
-    /// Read off directly, rpm.
-    Rpm(f64),
-    /// Timed for one turn, s.
-    SecondsPerTurn(f64),
-    /// Turns counted over a time.
-    Turns {
-        /// Turns counted.
-        turns: f64,
-        /// Over this many seconds.
-        seconds: f64,
-    },
+impl Measured {
+    /// The readings for a field check, once pressure and rotation are in.
+    pub fn reading(&self) -> Option<FieldReading> {
+        Some(FieldReading {
+            flow: self.flow,
+            throw: self.throw_m.map(ThrowReading::new),
+            ..FieldReading::new(self.pressure_pa?, self.rotation?)
+        })
+    }
 }
 
-impl Rotation {
-    /// The speed, rpm.
-    pub fn rpm(&self) -> f64 {
-        match *self {
-            Rotation::Rpm(r) => r,
-            Rotation::SecondsPerTurn(s) => 60.0 / s,
-            Rotation::Turns { turns, seconds } => 60.0 * turns / seconds,
+/// A result the worker is computing, with the id of the request that counts.
+#[derive(Debug, Clone)]
+pub struct Pending<T> {
+    /// The latest result (possibly of an earlier request while `waiting`).
+    pub result: Option<Box<T>>,
+    /// A newer result has been asked for.
+    pub waiting: bool,
+    id: u64,
+}
+
+impl<T> Default for Pending<T> {
+    fn default() -> Self {
+        Pending {
+            result: None,
+            waiting: false,
+            id: 0,
         }
     }
 }
@@ -292,8 +301,12 @@ pub struct App {
     pub quit: bool,
     /// Designs pinned for comparison.
     pub pins: Vec<Pinned>,
-    /// Field-check measurements.
+    /// The comparison of the design with the pinned ones.
+    pub comparison: Pending<Result<Comparison, String>>,
+    /// Field-check readings.
     pub measured: Measured,
+    /// The field check of the design against the readings.
+    pub field: Pending<Result<FieldCheck, String>>,
 }
 
 /// Where a file picker looks: `scenarios/` and the current folder.
@@ -365,7 +378,9 @@ impl App {
             theme: Theme::from_env(),
             quit: false,
             pins: Vec::new(),
+            comparison: Pending::default(),
             measured: Measured::default(),
+            field: Pending::default(),
         };
         app.selected = app.first_field_from(0, true);
         app.request_spray();
@@ -419,19 +434,61 @@ impl App {
                 }
                 false
             }
-            Done::Compare { id, slot, result } => match self.pins.get_mut(slot) {
-                Some(p) if p.id == id => {
-                    p.spray = Some(result);
-                    true
+            Done::Compare { id, result } => {
+                if id == self.comparison.id {
+                    self.comparison.result = Some(result);
+                    self.comparison.waiting = false;
+                    return true;
                 }
-                _ => false,
-            },
+                false
+            }
+            Done::Field { id, result } => {
+                if id == self.field.id {
+                    self.field.result = Some(result);
+                    self.field.waiting = false;
+                    return true;
+                }
+                false
+            }
         }
     }
 
     /// True while any job the screen waits for is outstanding.
     pub fn busy(&self) -> bool {
-        self.computing || self.pins.iter().any(|p| p.spray.is_none())
+        self.computing || self.comparison.waiting || self.field.waiting
+    }
+
+    /// Asks for the comparison again (the design or the pins changed).
+    fn request_comparison(&mut self) {
+        if self.pins.is_empty() {
+            self.comparison = Pending::default();
+            return;
+        }
+        let id = self.id();
+        // The first pin is the baseline the deltas are taken against.
+        let mut designs: Vec<(String, Design)> = self
+            .pins
+            .iter()
+            .map(|p| (p.label.clone(), p.design.clone()))
+            .collect();
+        designs.push(("now".to_string(), self.design.clone()));
+        self.comparison.id = id;
+        self.comparison.waiting = self.worker.send(Job::Compare { id, designs });
+    }
+
+    /// Asks for the field check again (the design or the readings changed).
+    fn request_field(&mut self) {
+        let Some(reading) = self.measured.reading() else {
+            self.field = Pending::default();
+            return;
+        };
+        let id = self.id();
+        self.field.id = id;
+        self.field.waiting = self.worker.send(Job::Field {
+            id,
+            design: Box::new(self.design.clone()),
+            reading,
+        });
     }
 
     /// Waits until every outstanding job is in (for tests and scripted runs),
@@ -463,6 +520,8 @@ impl App {
                 self.first_field_from(i, false)
             });
         self.request_spray();
+        self.request_comparison();
+        self.request_field();
         self.keep_selection_visible();
     }
 
@@ -649,6 +708,12 @@ impl App {
             'r' if self.view == View::Field => {
                 self.start_input(InputTarget::Measured(Measure::Rotation))
             }
+            'f' if self.view == View::Field => {
+                self.start_input(InputTarget::Measured(Measure::Flow))
+            }
+            't' if self.view == View::Field => {
+                self.start_input(InputTarget::Measured(Measure::Throw))
+            }
             _ => {}
         }
     }
@@ -773,7 +838,19 @@ impl App {
                     )
                 })
                 .unwrap_or_default(),
-            InputTarget::Measured(Measure::Rotation) => String::new(),
+            InputTarget::Measured(Measure::Throw) => self
+                .measured
+                .throw_m
+                .map(|m| {
+                    let shown = units::to_display(D::Length, m, self.units);
+                    format!(
+                        "{}{}",
+                        units::format_number(shown),
+                        units::unit_label(D::Length, self.units)
+                    )
+                })
+                .unwrap_or_default(),
+            InputTarget::Measured(Measure::Rotation | Measure::Flow) => String::new(),
         };
         self.mode = Mode::Typing(Input { target, text });
     }
@@ -877,28 +954,46 @@ impl App {
 
     fn type_measured(&mut self, m: Measure, text: &str) {
         let t = text.trim();
-        match m {
-            Measure::Pressure => {
-                if t.is_empty() {
-                    self.measured.pressure_pa = None;
-                    return;
-                }
-                match fields::parse_typed(Field::InletPressure, t, self.units) {
-                    Ok(Some(p)) if p > 0.0 => self.measured.pressure_pa = Some(p),
-                    Ok(_) => self.error("refused: a measured pressure must be above zero"),
-                    Err(e) => self.error(format!("refused: {}", e.0)),
-                }
+        let empty = t.is_empty();
+        let result: Result<(), String> = match m {
+            Measure::Pressure if empty => {
+                self.measured.pressure_pa = None;
+                Ok(())
             }
-            Measure::Rotation => {
-                if t.is_empty() {
-                    self.measured.rotation = None;
-                    return;
+            Measure::Pressure => match fields::parse_typed(Field::InletPressure, t, self.units) {
+                Ok(Some(p)) if p > 0.0 => {
+                    self.measured.pressure_pa = Some(p);
+                    Ok(())
                 }
-                match parse_rotation(t) {
-                    Ok(r) => self.measured.rotation = Some(r),
-                    Err(e) => self.error(format!("refused: {e}")),
-                }
+                Ok(_) => Err("a measured pressure must be above zero".to_string()),
+                Err(e) => Err(e.0),
+            },
+            Measure::Rotation if empty => {
+                self.measured.rotation = None;
+                Ok(())
             }
+            Measure::Rotation => parse_rotation(t).map(|r| self.measured.rotation = Some(r)),
+            Measure::Flow if empty => {
+                self.measured.flow = None;
+                Ok(())
+            }
+            Measure::Flow => parse_flow(t, self.units).map(|f| self.measured.flow = Some(f)),
+            Measure::Throw if empty => {
+                self.measured.throw_m = None;
+                Ok(())
+            }
+            Measure::Throw => match fields::parse_typed(Field::Spacing, t, self.units) {
+                Ok(Some(r)) if r > 0.0 => {
+                    self.measured.throw_m = Some(r);
+                    Ok(())
+                }
+                Ok(_) => Err("a measured wetted radius must be above zero".to_string()),
+                Err(e) => Err(e.0),
+            },
+        };
+        match result {
+            Ok(()) => self.request_field(),
+            Err(e) => self.error(format!("refused: {e}")),
         }
     }
 
@@ -1130,27 +1225,16 @@ impl App {
             ));
             return;
         }
-        let report = solve(&design);
-        let id = self.id();
-        let slot = self.pins.len();
-        self.worker.send(Job::Compare {
-            id,
-            slot,
-            design: Box::new(design.clone()),
-            report: Box::new(report.clone()),
-        });
         self.pins.push(Pinned {
             label: label.clone(),
             design,
-            report,
-            spray: None,
-            id,
         });
+        self.request_comparison();
         self.info(format!("pinned {label} for Compare (view 5)"));
     }
 
     fn pin_current(&mut self) {
-        let label = format!("pin {}: {}", self.pins.len() + 1, self.design.name);
+        let label = format!("pin {}", self.pins.len() + 1);
         self.pin(label, self.design.clone());
     }
 
@@ -1169,6 +1253,7 @@ impl App {
 
     fn unpin(&mut self) {
         if self.pins.pop().is_some() {
+            self.request_comparison();
             self.info("dropped the last pinned design");
         }
     }
@@ -1243,8 +1328,9 @@ fn respace(d: &mut Design) {
 }
 
 /// Reads a measured rotation: `40rpm`, `1.5s` (one turn), `10/14.2s` or
-/// `10 turns in 14.2s` (turns over a time).
-pub fn parse_rotation(text: &str) -> Result<Rotation, String> {
+/// `10 turns in 14.2s` (turns over a time). Timed readings carry the default
+/// stopwatch resolution.
+pub fn parse_rotation(text: &str) -> Result<RotationReading, String> {
     let t = text.trim();
     let help = "write `40rpm`, `1.5s` (seconds per turn) or `10/14.2s` (turns over a time)";
     let positive = |v: f64, what: &str| {
@@ -1255,30 +1341,63 @@ pub fn parse_rotation(text: &str) -> Result<Rotation, String> {
         }
     };
     let lower = t.to_lowercase();
-    let split = lower
-        .split_once('/')
-        .or_else(|| lower.split_once(" turns in "))
-        .or_else(|| lower.split_once(" turns over "));
-    if let Some((turns, time)) = split {
+    if let Some((turns, time)) = over(&lower, &["/", " turns in ", " turns over ", " in "]) {
         let turns: f64 = turns
             .trim()
             .parse()
             .map_err(|_| format!("`{}` is not a count of turns; {help}", turns.trim()))?;
         let seconds =
             units::parse_quantity(D::Time, time.trim()).map_err(|e| format!("{e}; {help}"))?;
-        return Ok(Rotation::Turns {
-            turns: positive(turns, "the turn count")?,
-            seconds: positive(seconds, "the time")?,
-        });
+        return Ok(RotationReading::turns_over(
+            positive(turns, "the turn count")?,
+            positive(seconds, "the time")?,
+        ));
     }
     if let Ok(w) = units::parse_quantity(D::AngularSpeed, t) {
-        return Ok(Rotation::Rpm(positive(
+        return Ok(RotationReading::rpm(positive(
             crate::physics::balance::rpm(w),
             "the speed",
         )?));
     }
     match units::parse_quantity(D::Time, t) {
-        Ok(s) => Ok(Rotation::SecondsPerTurn(positive(s, "the time per turn")?)),
+        Ok(s) => Ok(RotationReading::seconds_per_turn(positive(
+            s,
+            "the time per turn",
+        )?)),
         Err(_) => Err(format!("`{t}` is not a rotation; {help}")),
+    }
+}
+
+/// Splits `a SEP b` at the first of the separators found (in the order given).
+fn over<'a>(text: &'a str, separators: &[&str]) -> Option<(&'a str, &'a str)> {
+    separators.iter().find_map(|s| text.split_once(s))
+}
+
+/// Reads a measured flow: a rate (`12L/min`, `3.2gpm`, a bare number in the
+/// shown unit) or a volume caught over a time (`5L/30s`, `5L in 30s`).
+pub fn parse_flow(text: &str, system: UnitSystem) -> Result<FlowReading, String> {
+    let t = text.trim();
+    let help = "write a rate (`12L/min`) or a volume over a time (`5L in 30s`)";
+    let caught = over(t, &[" in ", " over "]).or_else(|| {
+        // `5L/30s`: a slash followed by a time, not a rate's `/min`.
+        t.rsplit_once('/').filter(|(_, b)| {
+            b.trim()
+                .starts_with(|c: char| c.is_ascii_digit() || c == '.')
+        })
+    });
+    if let Some((vol, time)) = caught {
+        let v = units::parse_quantity(D::Volume, vol.trim()).map_err(|e| format!("{e}; {help}"))?;
+        let s = units::parse_quantity(D::Time, time.trim()).map_err(|e| format!("{e}; {help}"))?;
+        if !(v > 0.0 && s > 0.0) {
+            return Err(format!(
+                "the volume and the time must be above zero; {help}"
+            ));
+        }
+        return Ok(FlowReading::caught(v, s));
+    }
+    match fields::parse_typed(Field::TotalFlow, t, system) {
+        Ok(Some(q)) if q > 0.0 => Ok(FlowReading::rate(q)),
+        Ok(_) => Err(format!("a measured flow must be above zero; {help}")),
+        Err(e) => Err(format!("{}; {help}", e.0)),
     }
 }

@@ -125,7 +125,7 @@ fn snapshot_of_a_windy_pattern_and_a_stalled_rotor() {
     assert!(a.computing, "a windy pattern goes to the worker");
     assert!(a.settle(SETTLE));
     let s = a.spray.as_ref().unwrap();
-    assert!(matches!(s.windy, Some(Ok(_))));
+    assert!(matches!(s.layout, Some(Ok(_))));
     insta::assert_snapshot!("pattern_windy_80x24", screen(&mut a, 80, 24));
 
     // Nozzles turned past radial (95°) on every arm: they brake, it cannot start.
@@ -390,16 +390,99 @@ fn choices_change_the_list_and_every_feed_solves() {
 }
 
 #[test]
-fn rotation_is_read_in_three_forms() {
-    use super::app::{parse_rotation, Rotation};
-    let r = parse_rotation("40rpm").unwrap();
-    assert!(matches!(r, Rotation::Rpm(_)) && (r.rpm() - 40.0).abs() < 1e-12);
-    assert_eq!(parse_rotation("1.5s"), Ok(Rotation::SecondsPerTurn(1.5)));
+fn rotation_and_flow_are_read_in_the_forms_taken() {
+    use super::app::{parse_flow, parse_rotation};
+    use crate::physics::field::{FlowReading, RotationReading};
+    let rpm = |r: RotationReading| r.measured_rpm();
+    assert!((rpm(parse_rotation("40rpm").unwrap()) - 40.0).abs() < 1e-12);
+    let r = parse_rotation("1.5s").unwrap();
+    assert!(matches!(r, RotationReading::SecondsPerTurn { .. }));
+    assert!((rpm(r) - 40.0).abs() < 1e-12);
+    // 10 turns in 14.2 s = 42.25 rpm (model.md M10 example).
     let r = parse_rotation("10/14.2s").unwrap();
-    assert!((r.rpm() - 60.0 * 10.0 / 14.2).abs() < 1e-12);
+    assert!((rpm(r) - 42.253_521_126_760_56).abs() < 1e-9);
     let r = parse_rotation("10 turns in 15 s").unwrap();
-    assert!((r.rpm() - 40.0).abs() < 1e-12);
+    assert!((rpm(r) - 40.0).abs() < 1e-12);
     assert!(parse_rotation("fast").is_err());
     assert!(parse_rotation("0rpm").is_err());
     assert!(parse_rotation("-2s").is_err());
+
+    let m = UnitSystem::Metric;
+    let f = parse_flow("12L/min", m).unwrap();
+    assert!(matches!(f, FlowReading::Rate { .. }));
+    assert!((f.measured_m3_s() - 12e-3 / 60.0).abs() < 1e-15);
+    let f = parse_flow("5L in 30s", m).unwrap();
+    assert!(matches!(f, FlowReading::Caught { .. }));
+    assert!((f.measured_m3_s() - 5e-3 / 30.0).abs() < 1e-15);
+    let f = parse_flow("5L/30s", m).unwrap();
+    assert!((f.measured_m3_s() - 5e-3 / 30.0).abs() < 1e-15);
+    assert!(parse_flow("3.2gpm", m).is_ok());
+    assert!(parse_flow("5m", m).is_err());
+}
+
+#[test]
+fn field_view_checks_readings_against_the_design() {
+    let mut a = app();
+    a.event(&key(KeyCode::Char('4')));
+    assert_eq!(a.view, View::Field);
+    a.event(&key(KeyCode::Char('p')));
+    clear_input(&mut a);
+    typed(&mut a, "2.5bar");
+    a.event(&key(KeyCode::Enter));
+    assert!(
+        a.field.result.is_none(),
+        "no check before the rotation is in"
+    );
+    a.event(&key(KeyCode::Char('r')));
+    typed(&mut a, "10/30s");
+    a.event(&key(KeyCode::Enter));
+    assert!(a.field.waiting, "the check runs on the worker");
+    assert!(a.settle(SETTLE));
+    let c = match a.field.result.as_deref() {
+        Some(Ok(c)) => c.clone(),
+        other => panic!("{other:?}"),
+    };
+    assert!((c.measured_rpm - 20.0).abs() < 1e-9);
+    assert!((c.inlet_pressure_pa - 2.5e5).abs() < 1e-6);
+    // Slower than the design at that pressure: more friction than designed.
+    let f = c.friction.expect("an implied friction");
+    assert!(f.implied_running_torque_n_m > f.design_running_torque_n_m);
+    assert!(!c.findings.is_empty());
+    insta::assert_snapshot!("field_checked_80x24", screen(&mut a, 80, 24));
+    insta::assert_snapshot!("field_checked_160x48", screen(&mut a, 160, 48));
+    // A bad reading is refused and the old one kept.
+    a.event(&key(KeyCode::Char('r')));
+    typed(&mut a, "fast");
+    a.event(&key(KeyCode::Enter));
+    assert!(a.message.as_ref().unwrap().text.contains("not a rotation"));
+    assert!(a.measured.rotation.is_some());
+}
+
+#[test]
+fn compare_view_shows_what_an_edit_changed() {
+    let mut a = app();
+    a.event(&key(KeyCode::Char('5')));
+    a.event(&key(KeyCode::Char('c')));
+    assert_eq!(a.pins.len(), 1);
+    select(&mut a, Field::Arm(0, ArmField::Deflection));
+    a.event(&key(KeyCode::Enter));
+    clear_input(&mut a);
+    typed(&mut a, "5deg");
+    a.event(&key(KeyCode::Enter));
+    a.event(&key(KeyCode::Char('*')));
+    assert!(a.settle(SETTLE));
+    let c = match a.comparison.result.as_deref() {
+        Some(Ok(c)) => c.clone(),
+        other => panic!("{other:?}"),
+    };
+    assert_eq!(c.names, vec!["pin 1".to_string(), "now".to_string()]);
+    assert_eq!(c.inputs.len(), 3, "{:?}", c.inputs);
+    assert!(c.inputs.iter().all(|i| i.path.ends_with("deflection_rad")));
+    let speed = c.results.iter().find(|r| r.key == "rpm").unwrap();
+    // The pin has the old 15° deflection; now, at 5°, it turns faster.
+    assert!(speed.deltas[1].unwrap() > 0.0);
+    insta::assert_snapshot!("compare_pinned_80x24", screen(&mut a, 80, 24));
+    insta::assert_snapshot!("compare_pinned_160x48", screen(&mut a, 160, 48));
+    a.event(&key(KeyCode::Char('x')));
+    assert!(a.pins.is_empty());
 }

@@ -7,22 +7,21 @@
 //! only the newest is computed (an edit made while one runs makes its result
 //! stale), and the UI keeps a result only if its id is the one it asked for
 //! last. Results come back on a channel the event loop reads between frames.
+//! The same thread runs the comparison of pinned designs and field checks.
 
 use std::sync::mpsc::{self, Receiver, Sender};
 use std::thread::JoinHandle;
 use std::time::{Duration, Instant};
 
-use crate::physics::balance::SpinReport;
+use crate::physics::balance::{solve, SpinReport};
+use crate::physics::coverage::{flight_env, head_throw, layout_overlap, wetted_radius_m};
 use crate::physics::design::Design;
-use crate::physics::hydraulics::Fluids;
-use crate::physics::jet::JetExit;
-use crate::physics::layout::{overlap, LayoutResult, OverlapOptions};
+use crate::physics::field::{check, FieldCheck, FieldReading, FieldTolerances};
+use crate::physics::layout::{LayoutResult, OverlapOptions};
 use crate::physics::pattern::{
-    nozzle_paths, radial_pattern, throw_at_rest_and_running, windy_pattern, NozzlePaths,
-    PatternGrid, PatternOptions, ThrowComparison, ThrowReport,
+    nozzle_paths, NozzlePaths, PatternOptions, ThrowComparison, ThrowReport,
 };
-use crate::physics::torque::jets;
-use crate::physics::trajectory::FlightEnv;
+use crate::physics::study::{compare, Comparison, ExtraMetric};
 
 /// Points per drawn trajectory.
 pub const PATH_SAMPLES: usize = 48;
@@ -30,7 +29,7 @@ pub const PATH_SAMPLES: usize = 48;
 /// Work for the worker thread.
 #[derive(Debug, Clone)]
 pub enum Job {
-    /// Throw, radial profile, trajectories, 2-D pattern in wind, layout overlap.
+    /// Throw, radial profile, trajectories, layout overlap (2-D pattern in wind).
     Spray {
         /// Which request this is.
         id: u64,
@@ -39,17 +38,32 @@ pub enum Job {
         /// Its spin solution (the jets at the operating point).
         report: Box<SpinReport>,
     },
-    /// The spray results of a scenario shown for comparison.
+    /// Pinned and saved designs against the current one.
     Compare {
         /// Which request this is.
         id: u64,
-        /// Column in the comparison.
-        slot: usize,
+        /// Column names and designs; the first is the baseline of the deltas.
+        designs: Vec<(String, Design)>,
+    },
+    /// A field check of the design against readings.
+    Field {
+        /// Which request this is.
+        id: u64,
         /// The design.
         design: Box<Design>,
-        /// Its spin solution.
-        report: Box<SpinReport>,
+        /// The readings.
+        reading: FieldReading,
     },
+}
+
+impl Job {
+    fn kind(&self) -> u8 {
+        match self {
+            Job::Spray { .. } => 0,
+            Job::Compare { .. } => 1,
+            Job::Field { .. } => 2,
+        }
+    }
 }
 
 /// A finished job.
@@ -66,27 +80,30 @@ pub enum Done {
     Compare {
         /// The request's id.
         id: u64,
-        /// Column in the comparison.
-        slot: usize,
-        /// What was computed.
-        result: Box<SprayResult>,
+        /// The comparison, or why there is none.
+        result: Box<Result<Comparison, String>>,
+    },
+    /// Results of a [`Job::Field`].
+    Field {
+        /// The request's id.
+        id: u64,
+        /// The check, or why the readings cannot be used.
+        result: Box<Result<FieldCheck, String>>,
     },
 }
 
 /// Throw, pattern and layout of one design.
 #[derive(Debug, Clone, PartialEq)]
 pub struct SprayResult {
-    /// Throw and radial profile at the operating point (at rest when stalled).
+    /// Throw and radial profile at the operating point (at rest when not turning).
     pub throw: Result<ThrowReport, String>,
     /// Arm index of each entry of `throw.nozzles` (flowing nozzles only).
     pub arms: Vec<usize>,
-    /// Wetted radius at rest against running, when running.
+    /// Wetted radius at rest against at speed.
     pub comparison: Option<ThrowComparison>,
     /// Largest, median and small drop paths per flowing nozzle (same order as `arms`).
     pub paths: Vec<Option<NozzlePaths>>,
-    /// The 2-D pattern when there is wind.
-    pub windy: Option<Result<PatternGrid, String>>,
-    /// Overlap on the design's layout, when it has one.
+    /// Overlap on the design's layout (from the 2-D pattern in wind), when it has one.
     pub layout: Option<Result<LayoutResult, String>>,
     /// Time the job took.
     pub elapsed: Duration,
@@ -107,75 +124,109 @@ impl SprayResult {
     }
 }
 
-/// Jets at the state the report describes, with the arm of each.
-fn jets_with_arms(design: &Design, report: &SpinReport) -> (Vec<JetExit>, Vec<usize>, f64) {
-    let (state, omega) = match &report.operating {
-        Some(op) => (&op.point.state, op.omega_rad_s()),
-        None => (&report.at_rest, 0.0),
-    };
-    let arms = state
+/// Computes the spray results of one design (what the worker thread runs),
+/// through the same coverage path as the `throw` and `layout` commands.
+pub fn spray(design: &Design, report: &SpinReport) -> SprayResult {
+    let start = Instant::now();
+    let opts = PatternOptions::default();
+    let state = report
+        .operating
+        .as_ref()
+        .map_or(&report.at_rest, |op| &op.point.state);
+    let arms: Vec<usize> = state
         .nozzles
         .iter()
         .enumerate()
         .filter(|(_, n)| n.flowing)
         .map(|(k, _)| k)
         .collect();
-    (jets(design, state), arms, omega)
-}
-
-/// Computes the spray results of one design (what the worker thread runs).
-pub fn spray(design: &Design, report: &SpinReport) -> SprayResult {
-    let start = Instant::now();
-    let fluids = Fluids::for_design(design);
-    let env = FlightEnv::new(&fluids.air, &fluids.water, &design.wind);
-    let opts = PatternOptions::default();
-    let (running, arms, omega) = jets_with_arms(design, report);
-    let throw =
-        radial_pattern(&running, &design.spray, &env, omega, &opts).map_err(|e| e.to_string());
-    let comparison = match (&throw, &report.operating) {
-        (Ok(_), Some(_)) => {
-            let rest = jets(design, &report.at_rest);
-            throw_at_rest_and_running(&rest, &running, &design.spray, &env, &opts).ok()
+    let head = head_throw(design, report, &opts, None).map_err(|e| e.to_string());
+    let env = flight_env(design);
+    let (throw, comparison, paths, layout) = match &head {
+        Ok(h) => {
+            let paths = h
+                .spraying
+                .jets
+                .iter()
+                .zip(&h.throw.nozzles)
+                .map(|(jet, nt)| {
+                    nt.as_ref()
+                        .and_then(|nt| nozzle_paths(jet, nt, &env, &opts.flight, PATH_SAMPLES).ok())
+                })
+                .collect();
+            let layout = design.layout.map(|l| {
+                layout_overlap(design, h, &l, &opts, &OverlapOptions::default())
+                    .map_err(|e| e.to_string())
+            });
+            (
+                Ok(h.throw.clone()),
+                h.spraying.running.then_some(h.rest_vs_running),
+                paths,
+                layout,
+            )
         }
-        _ => None,
-    };
-    let paths = match &throw {
-        Ok(t) => running
-            .iter()
-            .zip(&t.nozzles)
-            .map(|(jet, nt)| {
-                nt.as_ref()
-                    .and_then(|nt| nozzle_paths(jet, nt, &env, &opts.flight, PATH_SAMPLES).ok())
-            })
-            .collect(),
-        Err(_) => Vec::new(),
-    };
-    let windy = (design.wind.speed_m_s > 0.0 && throw.is_ok())
-        .then(|| windy_pattern(&running, &design.spray, &env, &opts).map_err(|e| e.to_string()));
-    let layout = match (&design.layout, &throw) {
-        (Some(layout), Ok(t)) => {
-            let o = OverlapOptions {
-                wetted_radius_m: Some(t.wetted_radius_m).filter(|r| *r > 0.0),
-                ..OverlapOptions::default()
-            };
-            Some(match &windy {
-                Some(Ok(grid)) => overlap(layout, grid, &o).map_err(|e| e.to_string()),
-                Some(Err(e)) => Err(e.clone()),
-                None => overlap(layout, &t.profile, &o).map_err(|e| e.to_string()),
-            })
-        }
-        (Some(_), Err(e)) => Some(Err(e.clone())),
-        (None, _) => None,
+        Err(e) => (
+            Err(e.clone()),
+            None,
+            Vec::new(),
+            design.layout.map(|_| Err(e.clone())),
+        ),
     };
     SprayResult {
         throw,
         arms,
         comparison,
         paths,
-        windy,
         layout,
         elapsed: start.elapsed(),
     }
+}
+
+/// CU and DU_lq of a design on its layout, %.
+fn uniformity(d: &Design, r: &SpinReport) -> Option<(f64, f64)> {
+    let layout = d.layout?;
+    let opts = PatternOptions::default();
+    let head = head_throw(d, r, &opts, None).ok()?;
+    let res = layout_overlap(d, &head, &layout, &opts, &OverlapOptions::default()).ok()?;
+    Some((res.uniformity.cu_percent, res.uniformity.du_lq_percent))
+}
+
+/// The comparison of named designs with throw, CU and DU_lq as extra results.
+pub fn comparison(designs: &[(String, Design)]) -> Result<Comparison, String> {
+    // CU and DU come from one overlap per design; work them out once.
+    let rated: Vec<(&Design, Option<(f64, f64)>)> = designs
+        .iter()
+        .map(|(_, d)| (d, uniformity(d, &solve(d))))
+        .collect();
+    let lookup = |d: &Design| rated.iter().find(|(x, _)| *x == d).and_then(|(_, u)| *u);
+    let wetted = |d: &Design, r: &SpinReport| wetted_radius_m(d, r).ok();
+    let cu = |d: &Design, _: &SpinReport| lookup(d).map(|u| u.0);
+    let du = |d: &Design, _: &SpinReport| lookup(d).map(|u| u.1);
+    let extras = [
+        ExtraMetric {
+            key: "wetted_radius_m",
+            unit: "m",
+            eval: &wetted,
+        },
+        ExtraMetric {
+            key: "cu_percent",
+            unit: "%",
+            eval: &cu,
+        },
+        ExtraMetric {
+            key: "du_lq_percent",
+            unit: "%",
+            eval: &du,
+        },
+    ];
+    let pairs: Vec<(&str, &Design)> = designs.iter().map(|(n, d)| (n.as_str(), d)).collect();
+    compare(&pairs, &extras).map_err(|e| e.to_string())
+}
+
+/// The field check of a design, with the throw model when a throw was measured.
+pub fn field_check(design: &Design, reading: &FieldReading) -> Result<FieldCheck, String> {
+    let throw = |d: &Design| wetted_radius_m(d, &solve(d)).ok();
+    check(design, reading, &FieldTolerances::default(), Some(&throw)).map_err(|e| e.to_string())
 }
 
 /// The worker thread and its two channels.
@@ -230,32 +281,33 @@ impl Drop for Worker {
 
 fn run(jobs: Receiver<Job>, done: Sender<Done>) {
     while let Ok(first) = jobs.recv() {
-        // Only the newest spray job counts; comparison jobs each fill a column.
+        // Of each kind only the newest job counts: an older one is stale.
         let mut queue = vec![first];
         while let Ok(more) = jobs.try_recv() {
             queue.push(more);
         }
-        let newest_spray = queue.iter().rposition(|j| matches!(j, Job::Spray { .. }));
+        let newest = |kind: u8| queue.iter().rposition(|j| j.kind() == kind);
+        let keep: Vec<usize> = (0..3).filter_map(newest).collect();
         for (i, job) in queue.into_iter().enumerate() {
+            if !keep.contains(&i) {
+                continue;
+            }
             let out = match job {
-                Job::Spray { id, design, report } => {
-                    if Some(i) != newest_spray {
-                        continue;
-                    }
-                    Done::Spray {
-                        id,
-                        result: Box::new(spray(&design, &report)),
-                    }
-                }
-                Job::Compare {
+                Job::Spray { id, design, report } => Done::Spray {
                     id,
-                    slot,
-                    design,
-                    report,
-                } => Done::Compare {
-                    id,
-                    slot,
                     result: Box::new(spray(&design, &report)),
+                },
+                Job::Compare { id, designs } => Done::Compare {
+                    id,
+                    result: Box::new(comparison(&designs)),
+                },
+                Job::Field {
+                    id,
+                    design,
+                    reading,
+                } => Done::Field {
+                    id,
+                    result: Box::new(field_check(&design, &reading)),
                 },
             };
             if done.send(out).is_err() {

@@ -76,19 +76,12 @@ fn summary(app: &App) -> Vec<Line<'static>> {
     lines
 }
 
-/// Rows `lines` take when wrapped to `width`.
-pub fn wrapped_rows(lines: &[Line], width: u16) -> u16 {
-    let w = width.max(1) as usize;
-    lines
-        .iter()
-        .map(|l| l.width().div_ceil(w).max(1) as u16)
-        .sum()
-}
-
 /// Draws the Balance view.
 pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
     let lines = summary(app);
-    let head_h = wrapped_rows(&lines, area.width).min(area.height / 4).max(2);
+    let head_h = super::wrapped_rows(&lines, area.width)
+        .min(area.height / 4)
+        .max(2);
     let table_h = ((area.height.saturating_sub(head_h)) * 2 / 5).max(4);
     let [head, chart, table] = Layout::vertical([
         Constraint::Length(head_h),

@@ -260,6 +260,12 @@ fn draw_message(app: &App, frame: &mut Frame, area: Rect) {
                 InputTarget::Measured(Measure::Rotation) => {
                     "measured rotation: 40rpm, 1.5s per turn, or 10/14.2s".to_string()
                 }
+                InputTarget::Measured(Measure::Flow) => {
+                    "measured flow: 12L/min, or 5L in 30s".to_string()
+                }
+                InputTarget::Measured(Measure::Throw) => {
+                    "measured wetted radius, e.g. 7.5m or 25ft".to_string()
+                }
             };
             match input.target {
                 InputTarget::Field(_) => Line::styled(format!(" {what}"), t.dim()),
@@ -319,7 +325,12 @@ pub fn keys_here(app: &App) -> Vec<(&'static str, &'static str)> {
             }
             match app.view {
                 View::Balance => k.push(("PgUp/Dn", "table")),
-                View::Field => k.extend([("p", "pressure"), ("r", "rotation")]),
+                View::Field => k.extend([
+                    ("p", "pressure"),
+                    ("r", "rotation"),
+                    ("f", "flow"),
+                    ("t", "throw"),
+                ]),
                 View::Compare => k.push(("x", "unpin")),
                 View::Throw | View::Pattern => {}
             }
@@ -466,4 +477,14 @@ pub fn scrolled(app: &App, lines: Vec<Line<'static>>, frame: &mut Frame, area: R
     let s = app.pane_scroll.min(max);
     let shown: Vec<Line> = lines.into_iter().skip(s).collect();
     frame.render_widget(Paragraph::new(shown), area);
+}
+
+/// Rows `lines` take when wrapped to `width` (by characters; word wrapping
+/// can take a row or so more).
+pub fn wrapped_rows(lines: &[Line], width: u16) -> u16 {
+    let w = width.max(1) as usize;
+    lines
+        .iter()
+        .map(|l| l.width().div_ceil(w).max(1) as u16)
+        .sum()
 }
