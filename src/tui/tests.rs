@@ -486,3 +486,23 @@ fn compare_view_shows_what_an_edit_changed() {
     a.event(&key(KeyCode::Char('x')));
     assert!(a.pins.is_empty());
 }
+
+#[test]
+fn without_colour_nothing_is_coloured_and_the_map_still_reads() {
+    use ratatui::style::Color;
+    let mut a = app();
+    a.theme = Theme { no_color: true };
+    a.event(&key(KeyCode::Char('3')));
+    a.event(&Event::Resize(160, 48));
+    let mut term = Terminal::new(TestBackend::new(160, 48)).unwrap();
+    term.draw(|f| draw(&a, f)).unwrap();
+    let buf = term.backend().buffer();
+    for cell in buf.content() {
+        assert_eq!(cell.fg, Color::Reset, "{:?}", cell);
+        assert_eq!(cell.bg, Color::Reset, "{:?}", cell);
+    }
+    // The depth map and its legend use shading characters.
+    let text = format!("{}", term.backend());
+    assert!(text.contains("▒▒ 90–110 %"), "{text}");
+    assert!(text.contains('░') || text.contains('▓'), "{text}");
+}
