@@ -305,6 +305,8 @@ pub struct App {
     pub comparison: Pending<Result<Comparison, String>>,
     /// Field-check readings.
     pub measured: Measured,
+    /// Where the file picker looks (`scenarios/` below it, and itself).
+    pub base_dir: PathBuf,
     /// The field check of the design against the readings.
     pub field: Pending<Result<FieldCheck, String>>,
 }
@@ -381,6 +383,7 @@ impl App {
             comparison: Pending::default(),
             measured: Measured::default(),
             field: Pending::default(),
+            base_dir: std::env::current_dir().unwrap_or_else(|_| PathBuf::from(".")),
         };
         app.selected = app.first_field_from(0, true);
         app.request_spray();
@@ -1147,10 +1150,11 @@ impl App {
     }
 
     fn open_picker(&mut self) {
-        let base = std::env::current_dir().unwrap_or_else(|_| PathBuf::from("."));
-        let files: Vec<PathBuf> = scenario_files(&base)
+        let base = &self.base_dir;
+        let here = std::env::current_dir().unwrap_or_else(|_| PathBuf::from("."));
+        let files: Vec<PathBuf> = scenario_files(base)
             .into_iter()
-            .map(|p| p.strip_prefix(&base).map(Path::to_path_buf).unwrap_or(p))
+            .map(|p| p.strip_prefix(&here).map(Path::to_path_buf).unwrap_or(p))
             .collect();
         if files.is_empty() {
             self.error("no .ron scenarios in scenarios/ or the current folder");

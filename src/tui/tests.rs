@@ -506,3 +506,39 @@ fn without_colour_nothing_is_coloured_and_the_map_still_reads() {
     assert!(text.contains("▒▒ 90–110 %"), "{text}");
     assert!(text.contains('░') || text.contains('▓'), "{text}");
 }
+
+#[test]
+fn the_picker_opens_a_scenario_or_adds_it_to_compare() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::create_dir(dir.path().join("scenarios")).unwrap();
+    let other = scenario::BUILTIN_EXAMPLE.replace("Lawn rotor", "Other rotor");
+    std::fs::write(dir.path().join("scenarios").join("other.ron"), &other).unwrap();
+    std::fs::write(dir.path().join("here.ron"), scenario::BUILTIN_EXAMPLE).unwrap();
+    std::fs::write(dir.path().join("notes.txt"), "not a scenario").unwrap();
+    let mut a = app();
+    a.base_dir = dir.path().to_path_buf();
+    a.event(&key(KeyCode::Char('o')));
+    let Mode::Picker(p) = &a.mode else {
+        panic!("{:?}", a.mode)
+    };
+    let names: Vec<String> = p
+        .files
+        .iter()
+        .map(|f| f.file_name().unwrap().to_string_lossy().into_owned())
+        .collect();
+    assert_eq!(names, ["other.ron", "here.ron"]);
+    // c adds it to the comparison without opening it.
+    a.event(&key(KeyCode::Char('c')));
+    assert_eq!(a.pins.len(), 1);
+    assert_eq!(a.pins[0].design.name, "Other rotor");
+    assert_eq!(a.design.name, "Lawn rotor");
+    // With an unsaved change, opening asks first.
+    a.event(&key(KeyCode::Right));
+    a.event(&key(KeyCode::Char('o')));
+    a.event(&key(KeyCode::Enter));
+    assert!(matches!(a.mode, Mode::Confirm(Confirm::OpenUnsaved(_))));
+    a.event(&key(KeyCode::Char('y')));
+    assert_eq!(a.design.name, "Other rotor");
+    assert!(!a.dirty);
+    assert!(a.settle(SETTLE));
+}

@@ -1,7 +1,7 @@
 //! The help overlay (`?`): every key, and the safety cautions.
 
 use ratatui::text::Line;
-use ratatui::widgets::{Block, Paragraph, Wrap};
+use ratatui::widgets::{Block, Paragraph};
 use ratatui::Frame;
 
 use super::popup;
@@ -35,8 +35,8 @@ pub const KEYS: &[(&str, &str)] = &[
     ),
     ("click", "select a field, or a view by its tab"),
     (
-        "p  r",
-        "Field view: type measured pressure / rotation (40rpm, 1.5s, 10/14.2s)",
+        "p  r  f  t",
+        "Field view: type the measured pressure, rotation (40rpm, 1.5s, 10/14.2s), flow (12L/min, 5L in 30s), wetted radius",
     ),
     ("c", "pin the current design for Compare"),
     ("x", "Compare view: drop the last pinned design"),
@@ -63,22 +63,54 @@ pub const CAUTIONS: &[&str] = &[
     "This tool estimates; local codes and licensed practice take precedence over its numbers.",
 ];
 
-/// The help text as lines.
+/// Splits `text` into lines of at most `width` characters at spaces.
+fn wrap(text: &str, width: usize) -> Vec<String> {
+    let width = width.max(10);
+    let mut out = Vec::new();
+    let mut line = String::new();
+    for word in text.split_whitespace() {
+        let n = line.chars().count();
+        if n > 0 && n + 1 + word.chars().count() > width {
+            out.push(std::mem::take(&mut line));
+        }
+        if !line.is_empty() {
+            line.push(' ');
+        }
+        line.push_str(word);
+    }
+    if !line.is_empty() || out.is_empty() {
+        out.push(line);
+    }
+    out
+}
+
+/// The help text as lines `width` wide, wrapped under their own column.
 pub fn help_lines(width: u16) -> Vec<Line<'static>> {
+    let width = width as usize;
     let key_w = KEYS
         .iter()
         .map(|(k, _)| k.chars().count())
         .max()
         .unwrap_or(0)
-        .min((width as usize) / 3);
+        .min(width / 3);
+    let indent = key_w + 4;
     let mut lines = vec![Line::raw("Keys")];
     for (k, what) in KEYS {
-        lines.push(Line::raw(format!("  {k:<key_w$}  {what}")));
+        for (i, part) in wrap(what, width.saturating_sub(indent))
+            .into_iter()
+            .enumerate()
+        {
+            let key = if i == 0 { *k } else { "" };
+            lines.push(Line::raw(format!("  {key:<key_w$}  {part}")));
+        }
     }
     lines.push(Line::raw(""));
     lines.push(Line::raw("Safety"));
     for c in CAUTIONS {
-        lines.push(Line::raw(format!("  • {c}")));
+        for (i, part) in wrap(c, width.saturating_sub(4)).into_iter().enumerate() {
+            let bullet = if i == 0 { "•" } else { " " };
+            lines.push(Line::raw(format!("  {bullet} {part}")));
+        }
     }
     lines
 }
@@ -104,9 +136,30 @@ pub fn draw(app: &App, frame: &mut Frame, scroll: u16) {
     let max = (rows as u16).saturating_sub(h.saturating_sub(2));
     frame.render_widget(
         Paragraph::new(lines)
-            .wrap(Wrap { trim: false })
             .scroll((scroll.min(max), 0))
             .block(block),
         r,
     );
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn help_names_every_caution_and_fits_its_width() {
+        let text: Vec<String> = help_lines(60).iter().map(|l| l.to_string()).collect();
+        assert!(text.iter().all(|l| l.chars().count() <= 60), "{text:#?}");
+        let all = text.join(" ");
+        for word in [
+            "eye",
+            "depressurise",
+            "backflow",
+            "electrical",
+            "power lines",
+            "local codes",
+        ] {
+            assert!(all.contains(word), "{word} missing from the help");
+        }
+    }
 }
