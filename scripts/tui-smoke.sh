@@ -12,7 +12,9 @@ cd "$(dirname "${BASH_SOURCE[0]}")/.."
 
 command -v tmux >/dev/null || { echo "tui-smoke: tmux not found, skipped"; exit 0; }
 
-cargo build --quiet --bin spinwright
+# The test profile: after `cargo test` (as in .ci/run) this binary is already
+# built, so the smoke test adds no compile time.
+cargo build --quiet --profile test --bin spinwright
 bin="$PWD/target/debug/spinwright"
 
 sock="spinwright-smoke-$$"
