@@ -8,6 +8,18 @@
 //! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
 //! - [`cli`]: the command line, a thin layer over the above.
 #![warn(missing_docs)]
+// No panic reachable from input in the library proper. The unit tests are
+// compiled with `cfg(test)` and may unwrap; the integration tests in tests/ are
+// another crate and do not see these attributes.
+#![cfg_attr(
+    not(test),
+    deny(
+        clippy::unwrap_used,
+        clippy::expect_used,
+        clippy::indexing_slicing,
+        clippy::panic
+    )
+)]
 
 pub mod audit;
 pub mod cli;
