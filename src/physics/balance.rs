@@ -415,10 +415,12 @@ fn scan_roots(
                 Err(e) => errors.push(e),
             }
         };
-    let mut samples: Vec<(f64, f64)> = vec![(0.0, at_zero)];
+    // The last sample and the one before it.
+    let mut last: (f64, f64) = (0.0, at_zero);
+    let mut before_last: Option<(f64, f64)> = None;
     for w in scan_grid(cap, floor, points) {
         let y = f(w);
-        let (w1, y1) = samples[samples.len() - 1];
+        let (w1, y1) = last;
         if y1 == 0.0 && w1 > 0.0 {
             found.push(Equilibrium {
                 omega_rad_s: w1,
@@ -426,9 +428,8 @@ fn scan_roots(
             });
         } else if y1 != 0.0 && y != 0.0 && y1.signum() != y.signum() {
             polish(&mut f, w1, y1, w, &mut found);
-        } else if samples.len() >= 2 {
+        } else if let Some((w0, y0)) = before_last {
             // A dip toward zero at the middle of the last three samples.
-            let (w0, y0) = samples[samples.len() - 2];
             let same = y0.signum() == y1.signum() && y1.signum() == y.signum() && y1 != 0.0;
             if same && y1.abs() < y0.abs() && y1.abs() < y.abs() {
                 let sign = y1.signum();
@@ -439,7 +440,8 @@ fn scan_roots(
                 }
             }
         }
-        samples.push((w, y));
+        before_last = Some(last);
+        last = (w, y);
         if first_only && !found.is_empty() {
             break;
         }

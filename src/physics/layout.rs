@@ -106,7 +106,11 @@ impl MeasuredLeg {
             }
         }
         points.sort_by(|a, b| a.0.total_cmp(&b.0));
-        if points.windows(2).any(|w| w[0].0 == w[1].0) {
+        if points
+            .iter()
+            .zip(points.iter().skip(1))
+            .any(|(a, b)| a.0 == b.0)
+        {
             return Err(ThrowError::InvalidInput {
                 field: "radial leg".to_string(),
                 detail: "has two cans at the same distance".to_string(),
@@ -148,8 +152,7 @@ impl HeadPattern for MeasuredLeg {
         if let Some(&(r0, q0)) = self.points.first() {
             total += q0 * PI * r0 * r0;
         }
-        for w in self.points.windows(2) {
-            let ((a, qa), (b, qb)) = (w[0], w[1]);
+        for (&(a, qa), &(b, qb)) in self.points.iter().zip(self.points.iter().skip(1)) {
             // ∫_a^b (qa + s (r − a)) 2πr dr, s = (qb − qa)/(b − a).
             let s = (qb - qa) / (b - a);
             let c = qa - s * a;
