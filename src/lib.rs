@@ -7,6 +7,7 @@
 //!   [`physics::design::Design`], writing a design back, and safe saving.
 //! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
 //! - [`cli`]: the command line, a thin layer over the above.
+//! - [`tui`]: the terminal interface, the other thin layer (the only terminal code).
 //! - [`crash`]: the panic hook: terminal restored, crash report written.
 #![warn(missing_docs)]
 // No panic reachable from input in the library proper. The unit tests are
@@ -27,4 +28,5 @@ pub mod cli;
 pub mod crash;
 pub mod physics;
 pub mod scenario;
+pub mod tui;
 pub mod units;

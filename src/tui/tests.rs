@@ -1,0 +1,508 @@
+//! Rendering snapshots (every view, 80×24 and 160×48, metric and US) and
+//! scripted event sequences that drive the state without a terminal.
+
+use std::time::Duration;
+
+use ratatui::backend::TestBackend;
+use ratatui::crossterm::event::{
+    Event, KeyCode, KeyEvent, KeyModifiers, MouseButton, MouseEvent, MouseEventKind,
+};
+use ratatui::Terminal;
+
+use super::app::{App, Confirm, Mode, View};
+use super::fields::{ArmField, Field, Row};
+use super::theme::Theme;
+use super::{draw, layout};
+use crate::physics::balance::rpm;
+use crate::scenario;
+use crate::units::UnitSystem;
+
+const SETTLE: Duration = Duration::from_secs(120);
+
+fn app() -> App {
+    let mut a = App::open(None).expect("the built-in example opens");
+    a.theme = Theme { no_color: false };
+    assert!(a.settle(SETTLE), "worker did not finish");
+    a
+}
+
+fn screen(app: &mut App, w: u16, h: u16) -> String {
+    app.event(&Event::Resize(w, h));
+    let mut term = Terminal::new(TestBackend::new(w, h)).expect("test terminal");
+    term.draw(|f| draw(app, f)).expect("draw");
+    format!("{}", term.backend())
+}
+
+fn key(code: KeyCode) -> Event {
+    Event::Key(KeyEvent::new(code, KeyModifiers::NONE))
+}
+
+fn shift(code: KeyCode) -> Event {
+    Event::Key(KeyEvent::new(code, KeyModifiers::SHIFT))
+}
+
+fn typed(app: &mut App, text: &str) {
+    for c in text.chars() {
+        app.event(&key(KeyCode::Char(c)));
+    }
+}
+
+fn clear_input(app: &mut App) {
+    app.event(&Event::Key(KeyEvent::new(
+        KeyCode::Char('u'),
+        KeyModifiers::CONTROL,
+    )));
+}
+
+fn select(app: &mut App, f: Field) {
+    app.event(&key(KeyCode::Home));
+    for _ in 0..400 {
+        if app.selected_field() == Some(f) {
+            return;
+        }
+        app.event(&key(KeyCode::Down));
+    }
+    panic!("{f:?} not reachable with Down");
+}
+
+fn op_rpm(app: &App) -> f64 {
+    rpm(app
+        .report
+        .operating
+        .as_ref()
+        .expect("the example runs")
+        .omega_rad_s())
+}
+
+#[test]
+fn snapshots_of_every_view_in_both_sizes_and_unit_systems() {
+    let mut a = app();
+    for (n, view) in View::ALL.iter().enumerate() {
+        a.event(&key(KeyCode::Char(char::from(b'1' + n as u8))));
+        assert_eq!(a.view, *view);
+        for units in [UnitSystem::Metric, UnitSystem::Us] {
+            a.set_units(units);
+            for (w, h) in [(80u16, 24u16), (160, 48)] {
+                let name = format!(
+                    "{}_{}_{w}x{h}",
+                    view.title().to_lowercase(),
+                    match units {
+                        UnitSystem::Metric => "metric",
+                        UnitSystem::Us => "us",
+                    }
+                );
+                insta::assert_snapshot!(name, screen(&mut a, w, h));
+            }
+        }
+    }
+}
+
+#[test]
+fn snapshot_of_the_help_overlay_and_a_question() {
+    let mut a = app();
+    a.event(&key(KeyCode::Char('?')));
+    insta::assert_snapshot!("help_80x24", screen(&mut a, 80, 24));
+    insta::assert_snapshot!("help_160x48", screen(&mut a, 160, 48));
+    a.event(&key(KeyCode::Esc));
+    assert_eq!(a.mode, Mode::Normal);
+    a.event(&key(KeyCode::Right));
+    a.event(&key(KeyCode::Char('q')));
+    assert_eq!(a.mode, Mode::Confirm(Confirm::QuitUnsaved));
+    assert!(a.settle(SETTLE));
+    insta::assert_snapshot!("quit_unsaved_80x24", screen(&mut a, 80, 24));
+}
+
+#[test]
+fn snapshot_of_a_windy_pattern_and_a_stalled_rotor() {
+    let mut a = app();
+    a.event(&key(KeyCode::Char('3')));
+    select(&mut a, Field::WindSpeed);
+    a.event(&key(KeyCode::Enter));
+    clear_input(&mut a);
+    typed(&mut a, "3m/s");
+    a.event(&key(KeyCode::Enter));
+    assert!((a.design.wind.speed_m_s - 3.0).abs() < 1e-9);
+    assert!(a.computing, "a windy pattern goes to the worker");
+    assert!(a.settle(SETTLE));
+    let s = a.spray.as_ref().unwrap();
+    assert!(matches!(s.layout, Some(Ok(_))));
+    insta::assert_snapshot!("pattern_windy_80x24", screen(&mut a, 80, 24));
+
+    // Nozzles turned past radial (95°) on every arm: they brake, it cannot start.
+    let mut b = app();
+    select(&mut b, Field::Arm(0, ArmField::Deflection));
+    b.event(&key(KeyCode::Enter));
+    clear_input(&mut b);
+    typed(&mut b, "95deg");
+    b.event(&key(KeyCode::Enter));
+    b.event(&key(KeyCode::Char('*')));
+    assert!(b.report.operating.is_none(), "95° deflection stalls it");
+    assert!(b.settle(SETTLE));
+    insta::assert_snapshot!("balance_stalled_80x24", screen(&mut b, 80, 24));
+}
+
+#[test]
+fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut a = app();
+    a.event(&Event::Resize(80, 24));
+    let before = op_rpm(&a);
+
+    // Select arm 1's deflection and nudge it up 1° twice, then coarse down 10°.
+    let defl = Field::Arm(0, ArmField::Deflection);
+    select(&mut a, defl);
+    let d0 = a.design.rotor.arms[0].nozzle.deflection_rad.to_degrees();
+    a.event(&key(KeyCode::Right));
+    a.event(&key(KeyCode::Right));
+    let d1 = a.design.rotor.arms[0].nozzle.deflection_rad.to_degrees();
+    assert!((d1 - (d0 + 2.0)).abs() < 1e-9, "{d0} → {d1}");
+    // A coarse step is 10° and lands on a multiple of it: 17° → 10°.
+    a.event(&shift(KeyCode::Left));
+    let d2 = a.design.rotor.arms[0].nozzle.deflection_rad.to_degrees();
+    assert!((d2 - 10.0).abs() < 1e-9, "{d1} → {d2}");
+    assert!(a.dirty);
+    // Less deflection points the jet further back: more torque, faster.
+    assert!(op_rpm(&a) > before, "{} vs {before}", op_rpm(&a));
+
+    // Type a pressure with a US unit while showing metric.
+    select(&mut a, Field::InletPressure);
+    a.event(&key(KeyCode::Enter));
+    clear_input(&mut a);
+    typed(&mut a, "45psi");
+    a.event(&key(KeyCode::Enter));
+    let want = 45.0 * crate::units::factor::PSI_PA;
+    assert_eq!(a.mode, Mode::Normal);
+    match a.design.supply {
+        crate::physics::design::Supply::Pressure { inlet_pa } => {
+            assert!((inlet_pa - want).abs() < 1e-6 * want, "{inlet_pa}")
+        }
+        other => panic!("{other:?}"),
+    }
+
+    // A refused value says why and keeps the old one.
+    let kept = a.design.clone();
+    select(&mut a, Field::Arm(1, ArmField::Diameter));
+    a.event(&key(KeyCode::Enter));
+    clear_input(&mut a);
+    typed(&mut a, "-1mm");
+    a.event(&key(KeyCode::Enter));
+    assert_eq!(a.design, kept);
+    let msg = a.message.clone().expect("a refusal message").text;
+    assert!(
+        msg.contains("refused") && msg.contains("greater than zero"),
+        "{msg}"
+    );
+    a.event(&key(KeyCode::Enter));
+    clear_input(&mut a);
+    typed(&mut a, "2.8bar");
+    a.event(&key(KeyCode::Enter));
+    assert_eq!(a.design, kept, "a pressure is not a nozzle size");
+    assert!(a.message.as_ref().unwrap().text.contains("length"));
+
+    // A 6.5 in arm radius on arm 3, typed in inches.
+    select(&mut a, Field::Arm(2, ArmField::Radius));
+    a.event(&key(KeyCode::Enter));
+    clear_input(&mut a);
+    typed(&mut a, "6.5in");
+    a.event(&key(KeyCode::Enter));
+    assert!((a.design.rotor.arms[2].radius_m - 0.1651).abs() < 1e-9);
+
+    // Views switch with Tab and digits.
+    a.event(&key(KeyCode::Tab));
+    assert_eq!(a.view, View::Throw);
+    a.event(&key(KeyCode::Char('3')));
+    assert_eq!(a.view, View::Pattern);
+    a.event(&Event::Key(KeyEvent::new(
+        KeyCode::BackTab,
+        KeyModifiers::SHIFT,
+    )));
+    assert_eq!(a.view, View::Throw);
+
+    // Units toggle.
+    a.event(&key(KeyCode::Char('u')));
+    assert_eq!(a.units, UnitSystem::Us);
+
+    // Save: no file yet, so it asks for a name.
+    a.event(&key(KeyCode::Char('s')));
+    assert!(matches!(a.mode, Mode::Typing(_)));
+    clear_input(&mut a);
+    let path = dir.path().join("tuned.ron");
+    typed(&mut a, &path.display().to_string());
+    a.event(&key(KeyCode::Enter));
+    assert!(!a.dirty, "{:?}", a.message);
+    let loaded = scenario::load_file(&path).unwrap().to_design().unwrap();
+    assert_eq!(loaded.rotor.arms.len(), 3);
+    let close = |x: f64, y: f64| (x - y).abs() <= 1e-9 * x.abs().max(1e-9);
+    assert!(close(
+        loaded.rotor.arms[2].radius_m,
+        a.design.rotor.arms[2].radius_m
+    ));
+    assert!(close(
+        loaded.rotor.arms[0].nozzle.deflection_rad,
+        a.design.rotor.arms[0].nozzle.deflection_rad
+    ));
+    let re = crate::physics::balance::solve(&loaded);
+    let r2 = rpm(re.operating.unwrap().omega_rad_s());
+    assert!(
+        (r2 - op_rpm(&a)).abs() < 1e-6 * r2,
+        "{r2} vs {}",
+        op_rpm(&a)
+    );
+
+    // Quitting clean does not ask.
+    a.event(&key(KeyCode::Char('q')));
+    assert!(a.quit);
+}
+
+#[test]
+fn a_file_changed_on_disk_is_not_overwritten_without_asking() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("lawn.ron");
+    std::fs::write(&path, scenario::BUILTIN_EXAMPLE).unwrap();
+    let mut a = App::open(Some(&path)).unwrap();
+    a.event(&key(KeyCode::Right));
+    assert!(a.dirty);
+    // Someone else edits the file.
+    let other = scenario::BUILTIN_EXAMPLE.replace("Lawn rotor", "Edited elsewhere");
+    std::fs::write(&path, &other).unwrap();
+    a.event(&key(KeyCode::Char('s')));
+    assert!(matches!(
+        a.mode,
+        Mode::Confirm(Confirm::OverwriteChanged(_))
+    ));
+    a.event(&key(KeyCode::Char('n')));
+    assert_eq!(std::fs::read_to_string(&path).unwrap(), other);
+    assert!(a.dirty);
+    a.event(&key(KeyCode::Char('s')));
+    a.event(&key(KeyCode::Char('y')));
+    assert!(!a.dirty);
+    let text = std::fs::read_to_string(&path).unwrap();
+    assert!(text.contains("Lawn rotor"));
+    // The old one was kept.
+    let bak = std::fs::read_to_string(dir.path().join("lawn.ron.bak")).unwrap();
+    assert_eq!(bak, other);
+    // Saved by us, unchanged since: no question.
+    a.event(&key(KeyCode::Right));
+    a.event(&key(KeyCode::Char('s')));
+    assert_eq!(a.mode, Mode::Normal);
+    assert!(!a.dirty);
+    assert!(a.settle(SETTLE));
+}
+
+#[test]
+fn quitting_with_unsaved_changes_asks_and_can_stay() {
+    let mut a = app();
+    a.event(&key(KeyCode::Right));
+    a.event(&key(KeyCode::Char('q')));
+    assert!(!a.quit);
+    a.event(&key(KeyCode::Esc));
+    assert!(!a.quit);
+    assert_eq!(a.mode, Mode::Normal);
+    a.event(&key(KeyCode::Char('q')));
+    a.event(&key(KeyCode::Char('y')));
+    assert!(a.quit);
+}
+
+#[test]
+fn arms_are_added_removed_and_share_a_nozzle() {
+    let mut a = app();
+    select(&mut a, Field::Arm(1, ArmField::Diameter));
+    a.event(&key(KeyCode::Right));
+    let big = a.design.rotor.arms[1].nozzle.diameter_m;
+    assert!(big > a.design.rotor.arms[0].nozzle.diameter_m);
+    a.event(&key(KeyCode::Char('*')));
+    assert!(a
+        .design
+        .rotor
+        .arms
+        .iter()
+        .all(|arm| arm.nozzle.diameter_m == big));
+    a.event(&key(KeyCode::Char('+')));
+    assert_eq!(a.design.rotor.arms.len(), 4);
+    let az: Vec<f64> = a
+        .design
+        .rotor
+        .arms
+        .iter()
+        .map(|arm| arm.azimuth_rad.to_degrees())
+        .collect();
+    for (k, z) in az.iter().enumerate() {
+        assert!((z - 90.0 * k as f64).abs() < 1e-9, "{az:?}");
+    }
+    assert!(a.rows.contains(&Row::ArmHeading(3)));
+    a.event(&key(KeyCode::Char('-')));
+    a.event(&key(KeyCode::Char('-')));
+    a.event(&key(KeyCode::Char('-')));
+    assert_eq!(a.design.rotor.arms.len(), 1);
+    a.event(&key(KeyCode::Char('-')));
+    assert_eq!(a.design.rotor.arms.len(), 1, "the last arm stays");
+    assert!(a
+        .message
+        .as_ref()
+        .unwrap()
+        .text
+        .contains("at least one arm"));
+    assert!(a.settle(SETTLE));
+}
+
+#[test]
+fn mouse_selects_fields_and_views_and_scrolls() {
+    let mut a = app();
+    a.event(&Event::Resize(80, 24));
+    let areas = a.areas();
+    let click = |col, row| {
+        Event::Mouse(MouseEvent {
+            kind: MouseEventKind::Down(MouseButton::Left),
+            column: col,
+            row,
+            modifiers: KeyModifiers::NONE,
+        })
+    };
+    // The third tab.
+    let (_, _, x0, _) = layout::tab_spans(areas.tabs.width)[2];
+    a.event(&click(areas.tabs.x + x0, areas.tabs.y));
+    assert_eq!(a.view, View::Pattern);
+    // The list's row 2 (the first rows are: Supply heading, feed, inlet pressure).
+    a.event(&click(areas.list.x + 3, areas.list.y + 2));
+    assert_eq!(a.selected_field(), Some(Field::InletPressure));
+    // Wheel over the list scrolls it.
+    a.event(&Event::Mouse(MouseEvent {
+        kind: MouseEventKind::ScrollDown,
+        column: areas.list.x + 3,
+        row: areas.list.y + 3,
+        modifiers: KeyModifiers::NONE,
+    }));
+    assert_eq!(a.list_offset, 3);
+}
+
+#[test]
+fn choices_change_the_list_and_every_feed_solves() {
+    let mut a = app();
+    select(&mut a, Field::SupplyKind);
+    a.event(&key(KeyCode::Right));
+    assert!(a.rows.contains(&Row::Field(Field::TotalFlow)));
+    a.event(&key(KeyCode::Right));
+    assert!(a.rows.contains(&Row::Field(Field::LineLength)));
+    assert!(a.report.operating.is_some());
+    a.event(&key(KeyCode::Right));
+    assert!(a.rows.contains(&Row::Field(Field::InletPressure)));
+    assert!(a.settle(SETTLE));
+}
+
+#[test]
+fn rotation_and_flow_are_read_in_the_forms_taken() {
+    use super::app::{parse_flow, parse_rotation};
+    use crate::physics::field::{FlowReading, RotationReading};
+    let rpm = |r: RotationReading| r.measured_rpm();
+    assert!((rpm(parse_rotation("40rpm").unwrap()) - 40.0).abs() < 1e-12);
+    let r = parse_rotation("1.5s").unwrap();
+    assert!(matches!(r, RotationReading::SecondsPerTurn { .. }));
+    assert!((rpm(r) - 40.0).abs() < 1e-12);
+    // 10 turns in 14.2 s = 42.25 rpm (model.md M10 example).
+    let r = parse_rotation("10/14.2s").unwrap();
+    assert!((rpm(r) - 42.253_521_126_760_56).abs() < 1e-9);
+    let r = parse_rotation("10 turns in 15 s").unwrap();
+    assert!((rpm(r) - 40.0).abs() < 1e-12);
+    assert!(parse_rotation("fast").is_err());
+    assert!(parse_rotation("0rpm").is_err());
+    assert!(parse_rotation("-2s").is_err());
+
+    let m = UnitSystem::Metric;
+    let f = parse_flow("12L/min", m).unwrap();
+    assert!(matches!(f, FlowReading::Rate { .. }));
+    assert!((f.measured_m3_s() - 12e-3 / 60.0).abs() < 1e-15);
+    let f = parse_flow("5L in 30s", m).unwrap();
+    assert!(matches!(f, FlowReading::Caught { .. }));
+    assert!((f.measured_m3_s() - 5e-3 / 30.0).abs() < 1e-15);
+    let f = parse_flow("5L/30s", m).unwrap();
+    assert!((f.measured_m3_s() - 5e-3 / 30.0).abs() < 1e-15);
+    assert!(parse_flow("3.2gpm", m).is_ok());
+    assert!(parse_flow("5m", m).is_err());
+}
+
+#[test]
+fn field_view_checks_readings_against_the_design() {
+    let mut a = app();
+    a.event(&key(KeyCode::Char('4')));
+    assert_eq!(a.view, View::Field);
+    a.event(&key(KeyCode::Char('p')));
+    clear_input(&mut a);
+    typed(&mut a, "2.5bar");
+    a.event(&key(KeyCode::Enter));
+    assert!(
+        a.field.result.is_none(),
+        "no check before the rotation is in"
+    );
+    a.event(&key(KeyCode::Char('r')));
+    typed(&mut a, "10/30s");
+    a.event(&key(KeyCode::Enter));
+    assert!(a.field.waiting, "the check runs on the worker");
+    assert!(a.settle(SETTLE));
+    let c = match a.field.result.as_deref() {
+        Some(Ok(c)) => c.clone(),
+        other => panic!("{other:?}"),
+    };
+    assert!((c.measured_rpm - 20.0).abs() < 1e-9);
+    assert!((c.inlet_pressure_pa - 2.5e5).abs() < 1e-6);
+    // Slower than the design at that pressure: more friction than designed.
+    let f = c.friction.expect("an implied friction");
+    assert!(f.implied_running_torque_n_m > f.design_running_torque_n_m);
+    assert!(!c.findings.is_empty());
+    insta::assert_snapshot!("field_checked_80x24", screen(&mut a, 80, 24));
+    insta::assert_snapshot!("field_checked_160x48", screen(&mut a, 160, 48));
+    // A bad reading is refused and the old one kept.
+    a.event(&key(KeyCode::Char('r')));
+    typed(&mut a, "fast");
+    a.event(&key(KeyCode::Enter));
+    assert!(a.message.as_ref().unwrap().text.contains("not a rotation"));
+    assert!(a.measured.rotation.is_some());
+}
+
+#[test]
+fn compare_view_shows_what_an_edit_changed() {
+    let mut a = app();
+    a.event(&key(KeyCode::Char('5')));
+    a.event(&key(KeyCode::Char('c')));
+    assert_eq!(a.pins.len(), 1);
+    select(&mut a, Field::Arm(0, ArmField::Deflection));
+    a.event(&key(KeyCode::Enter));
+    clear_input(&mut a);
+    typed(&mut a, "5deg");
+    a.event(&key(KeyCode::Enter));
+    a.event(&key(KeyCode::Char('*')));
+    assert!(a.settle(SETTLE));
+    let c = match a.comparison.result.as_deref() {
+        Some(Ok(c)) => c.clone(),
+        other => panic!("{other:?}"),
+    };
+    assert_eq!(c.names, vec!["pin 1".to_string(), "now".to_string()]);
+    assert_eq!(c.inputs.len(), 3, "{:?}", c.inputs);
+    assert!(c.inputs.iter().all(|i| i.path.ends_with("deflection_rad")));
+    let speed = c.results.iter().find(|r| r.key == "rpm").unwrap();
+    // The pin has the old 15° deflection; now, at 5°, it turns faster.
+    assert!(speed.deltas[1].unwrap() > 0.0);
+    insta::assert_snapshot!("compare_pinned_80x24", screen(&mut a, 80, 24));
+    insta::assert_snapshot!("compare_pinned_160x48", screen(&mut a, 160, 48));
+    a.event(&key(KeyCode::Char('x')));
+    assert!(a.pins.is_empty());
+}
+
+#[test]
+fn without_colour_nothing_is_coloured_and_the_map_still_reads() {
+    use ratatui::style::Color;
+    let mut a = app();
+    a.theme = Theme { no_color: true };
+    a.event(&key(KeyCode::Char('3')));
+    a.event(&Event::Resize(160, 48));
+    let mut term = Terminal::new(TestBackend::new(160, 48)).unwrap();
+    term.draw(|f| draw(&a, f)).unwrap();
+    let buf = term.backend().buffer();
+    for cell in buf.content() {
+        assert_eq!(cell.fg, Color::Reset, "{:?}", cell);
+        assert_eq!(cell.bg, Color::Reset, "{:?}", cell);
+    }
+    // The depth map and its legend use shading characters.
+    let text = format!("{}", term.backend());
+    assert!(text.contains("▒▒ 90–110 %"), "{text}");
+    assert!(text.contains('░') || text.contains('▓'), "{text}");
+}

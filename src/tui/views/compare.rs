@@ -1,0 +1,247 @@
+//! View 5, Compare: the design as it is now against pinned designs and saved
+//! scenarios — the key results with deltas against the first pinned design
+//! (▲ better, ▼ worse), and the inputs that differ.
+
+use ratatui::layout::{Constraint, Rect};
+use ratatui::style::Style;
+use ratatui::text::{Line, Span};
+use ratatui::widgets::{Cell, Paragraph, Row, Table, Wrap};
+use ratatui::Frame;
+
+use super::num;
+use crate::physics::study::{Comparison, InputValue};
+use crate::tui::app::App;
+use crate::units::{to_display, unit_label, Dimension as D};
+
+/// Whether a larger value of a result is better (None: neither).
+pub fn larger_is_better(key: &str) -> Option<bool> {
+    match key {
+        "start_margin" | "cu_percent" | "du_lq_percent" | "wetted_radius_m" => Some(true),
+        _ => None,
+    }
+}
+
+/// A result key's label and dimension (None: shown as is, with `unit`).
+fn result_label(key: &str) -> (&'static str, Option<D>) {
+    match key {
+        "rpm" => ("speed rpm", None),
+        "start_margin" => ("start margin", None),
+        "total_flow_m3_s" => ("flow", Some(D::Flow)),
+        "stall_torque_n_m" => ("stall torque", Some(D::Torque)),
+        "runaway_rpm" => ("runaway rpm", None),
+        "wetted_radius_m" => ("wetted radius", Some(D::Length)),
+        "cu_percent" => ("CU %", None),
+        "du_lq_percent" => ("DU_lq %", None),
+        _ => ("", None),
+    }
+}
+
+/// An input's dimension from its SI unit and path.
+fn input_dimension(path: &str, unit: &str) -> Option<D> {
+    Some(match unit {
+        "m" => {
+            let large = ["altitude", "spacing", "rows", "supply.length", "lift"];
+            if large.iter().any(|k| path.contains(k)) {
+                D::Length
+            } else {
+                D::SmallLength
+            }
+        }
+        "Pa" => D::Pressure,
+        "m3/s" => D::Flow,
+        "rad" => D::Angle,
+        "°C" => D::Temperature,
+        "N·m" => D::Torque,
+        "kg" => D::Mass,
+        "m2" => D::Area,
+        "m/s" => D::Speed,
+        "kg·m²" => D::Inertia,
+        "kg/m3" | "kg/m³" => D::Density,
+        _ => return None,
+    })
+}
+
+/// `rotor.arms[0].nozzle.diameter_m` → `arm 1 diameter`.
+fn input_label(path: &str) -> String {
+    let mut s = path.to_string();
+    if let Some(rest) = s.strip_prefix("rotor.arms[") {
+        if let Some((k, tail)) = rest.split_once("].") {
+            let n = k.parse::<usize>().map_or(0, |k| k + 1);
+            let tail = tail.strip_prefix("nozzle.").unwrap_or(tail);
+            s = format!("arm {n} {tail}");
+        }
+    }
+    for suffix in [
+        "_m3_s", "_kg_m3", "_m_s", "_pa", "_rad", "_c", "_n_m", "_kg", "_m2", "_m",
+    ] {
+        if let Some(t) = s.strip_suffix(suffix) {
+            s = t.to_string();
+            break;
+        }
+    }
+    s.replace(['.', '_'], " ")
+}
+
+fn show_input(app: &App, path: &str, unit: &str, v: &Option<InputValue>) -> String {
+    match v {
+        None => "—".to_string(),
+        Some(InputValue::Text(t)) => t.clone(),
+        Some(InputValue::Number(x)) => match input_dimension(path, unit) {
+            Some(dim) => num(to_display(dim, *x, app.units)),
+            None => num(*x),
+        },
+    }
+}
+
+fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Constraint>) {
+    let t = &app.theme;
+    let n = c.names.len();
+    let label_w = (width * 2 / 5).clamp(12, 26);
+    let col_w = (width.saturating_sub(label_w) / n.max(1) as u16).max(8);
+    let mut widths = vec![Constraint::Length(label_w)];
+    widths.extend(std::iter::repeat_n(Constraint::Length(col_w), n));
+    let mut rows = vec![Row::new(
+        std::iter::once(Cell::from("")).chain(c.names.iter().map(|s| Cell::from(s.clone()))),
+    )
+    .style(t.heading())];
+    rows.push(Row::new(vec![Cell::from(Span::styled(
+        "results",
+        t.heading(),
+    ))]));
+    for r in &c.results {
+        let (label, dim) = result_label(&r.key);
+        let label = match dim {
+            Some(d) => format!("{label} {}", unit_label(d, app.units)),
+            None if label.is_empty() => format!("{} {}", r.key, r.unit),
+            None => label.to_string(),
+        };
+        let shown = |v: f64| dim.map_or(v, |d| to_display(d, v, app.units));
+        let delta = |d: f64| {
+            dim.map_or(d, |dm| {
+                to_display(dm, d, app.units) - to_display(dm, 0.0, app.units)
+            })
+        };
+        let better = larger_is_better(&r.key);
+        let mut cells = vec![Cell::from(label)];
+        for (k, v) in r.values.iter().enumerate() {
+            let base = v.map_or("—".to_string(), |v| num(shown(v)));
+            if k == 0 {
+                cells.push(Cell::from(base));
+                continue;
+            }
+            let d = r.deltas.get(k).copied().flatten();
+            let (mark, style) = match (d, better) {
+                (Some(d), Some(up)) if d != 0.0 => {
+                    if (d > 0.0) == up {
+                        (" ▲", t.good())
+                    } else {
+                        (" ▼", t.bad())
+                    }
+                }
+                _ => ("", Style::default()),
+            };
+            let pct = r.percents.get(k).copied().flatten();
+            let text = match (d, pct) {
+                (Some(d), Some(p)) if d != 0.0 => format!("{base} {p:+.1}%{mark}"),
+                (Some(d), None) if d != 0.0 => {
+                    let sign = if d > 0.0 { "+" } else { "" };
+                    format!("{base} {sign}{}{mark}", num(delta(d)))
+                }
+                _ => base,
+            };
+            cells.push(Cell::from(Span::styled(text, style)));
+        }
+        rows.push(Row::new(cells));
+    }
+    rows.push(Row::new(vec![Cell::from(Span::styled(
+        "inputs that differ",
+        t.heading(),
+    ))]));
+    if c.inputs.is_empty() {
+        rows.push(Row::new(vec![Cell::from(
+            "  (none: the inputs are the same)",
+        )]));
+    }
+    for i in &c.inputs {
+        let dim = input_dimension(&i.path, i.unit);
+        let label = match dim {
+            Some(d) => format!("{} {}", input_label(&i.path), unit_label(d, app.units)),
+            None => input_label(&i.path),
+        };
+        let first = i.values.first().cloned().flatten();
+        let mut cells = vec![Cell::from(label)];
+        for (k, v) in i.values.iter().enumerate() {
+            let text = show_input(app, &i.path, i.unit, v);
+            let style = if k > 0 && *v != first {
+                t.warning()
+            } else {
+                Style::default()
+            };
+            cells.push(Cell::from(Span::styled(text, style)));
+        }
+        rows.push(Row::new(cells));
+    }
+    (rows, widths)
+}
+
+/// Draws the Compare view.
+pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
+    let t = &app.theme;
+    let mut head = vec![Line::styled(
+        "deltas against the first pin · c pins the design as it is now · o, then c on a file, adds a saved scenario · x drops the last pin",
+        t.dim(),
+    )];
+    if app.pins.is_empty() {
+        head.push(Line::raw(""));
+        head.push(Line::raw(
+            "Nothing pinned yet. Pin the design, change it, and see what the change did.",
+        ));
+        frame.render_widget(Paragraph::new(head).wrap(Wrap { trim: true }), area);
+        return;
+    }
+    if app.comparison.waiting {
+        head.push(Line::styled("computing…", t.dim()));
+    }
+    let head_h = super::wrapped_rows(&head, area.width).min(area.height);
+    let [top, body] =
+        ratatui::layout::Layout::vertical([Constraint::Length(head_h), Constraint::Min(1)])
+            .areas(area);
+    frame.render_widget(Paragraph::new(head).wrap(Wrap { trim: true }), top);
+    match app.comparison.result.as_deref() {
+        None => {}
+        Some(Err(e)) => frame.render_widget(
+            Paragraph::new(Line::styled(e.clone(), t.error())).wrap(Wrap { trim: true }),
+            body,
+        ),
+        Some(Ok(c)) => {
+            let (rows, widths) = table(app, c, body.width);
+            let max = rows.len().saturating_sub(body.height as usize);
+            let skip = app.pane_scroll.min(max);
+            let rows: Vec<Row> = rows.into_iter().skip(skip).collect();
+            frame.render_widget(Table::new(rows, widths), body);
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn input_paths_read_as_words() {
+        assert_eq!(
+            input_label("rotor.arms[0].nozzle.diameter_m"),
+            "arm 1 diameter"
+        );
+        assert_eq!(input_label("supply.inlet_pa"), "supply inlet");
+        assert_eq!(
+            input_label("friction.bearing.mu_kinetic"),
+            "friction bearing mu kinetic"
+        );
+        assert_eq!(input_dimension("layout.spacing_m", "m"), Some(D::Length));
+        assert_eq!(
+            input_dimension("rotor.arms[1].radius_m", "m"),
+            Some(D::SmallLength)
+        );
+    }
+}

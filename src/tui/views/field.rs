@@ -1,0 +1,188 @@
+//! View 4, Field: readings taken at a running sprinkler (inlet pressure,
+//! rotation, optionally flow and wetted radius) against what the design
+//! expects at that pressure, the bearing friction that would explain the
+//! speed, and the findings in trade words, most serious first.
+
+use ratatui::layout::Rect;
+use ratatui::style::Modifier;
+use ratatui::text::{Line, Span};
+use ratatui::widgets::{Paragraph, Wrap};
+use ratatui::Frame;
+
+use crate::physics::field::{FieldCheck, FlowReading, RotationReading};
+use crate::tui::app::App;
+use crate::units::{format_quantity, Dimension as D};
+
+fn rotation_text(r: &RotationReading) -> String {
+    match *r {
+        RotationReading::Rpm { rpm, .. } => format!("{rpm:.1} rpm"),
+        RotationReading::SecondsPerTurn { seconds, .. } => {
+            format!("{seconds:.2} s per turn = {:.1} rpm", 60.0 / seconds)
+        }
+        RotationReading::TurnsOver { turns, seconds, .. } => format!(
+            "{turns} turns in {seconds} s = {:.1} rpm",
+            60.0 * turns / seconds
+        ),
+    }
+}
+
+fn flow_text(app: &App, f: &FlowReading) -> String {
+    let q = |v| format_quantity(D::Flow, v, app.units);
+    match *f {
+        FlowReading::Rate { flow_m3_s, .. } => q(flow_m3_s),
+        FlowReading::Caught {
+            volume_m3, seconds, ..
+        } => format!(
+            "{} in {seconds} s = {}",
+            format_quantity(D::Volume, volume_m3, app.units),
+            q(volume_m3 / seconds)
+        ),
+    }
+}
+
+/// The readings block.
+fn readings(app: &App) -> Vec<Line<'static>> {
+    let t = &app.theme;
+    let m = &app.measured;
+    let dash = || "—".to_string();
+    let row = |k: &str, label: &str, value: String| {
+        Line::from(vec![
+            Span::styled(format!(" {k} "), t.selected()),
+            Span::raw(format!(" {label:<15}{value}")),
+        ])
+    };
+    vec![
+        Line::styled(
+            "readings at the unit (key, then type; Enter on empty clears)",
+            t.heading(),
+        ),
+        row(
+            "p",
+            "inlet pressure",
+            m.pressure_pa
+                .map_or_else(dash, |p| format_quantity(D::Pressure, p, app.units)),
+        ),
+        row(
+            "r",
+            "rotation",
+            m.rotation.as_ref().map_or_else(dash, rotation_text),
+        ),
+        row(
+            "f",
+            "flow",
+            m.flow
+                .as_ref()
+                .map_or_else(|| "— (optional)".to_string(), |f| flow_text(app, f)),
+        ),
+        row(
+            "t",
+            "wetted radius",
+            m.throw_m.map_or_else(
+                || "— (optional)".to_string(),
+                |r| format_quantity(D::Length, r, app.units),
+            ),
+        ),
+        Line::raw(""),
+    ]
+}
+
+fn check_lines(app: &App, c: &FieldCheck) -> Vec<Line<'static>> {
+    let t = &app.theme;
+    let q = |dim, v| format_quantity(dim, v, app.units);
+    let mut lines = vec![Line::from(vec![
+        Span::styled(format!("measured {:.1} rpm", c.measured_rpm), t.heading()),
+        Span::raw(format!(
+            " (reading allows {:.1}–{:.1})",
+            c.measured_rpm_band[0], c.measured_rpm_band[1]
+        )),
+    ])];
+    lines.push(Line::raw(match (c.expected_rpm, c.deviation_percent) {
+        (Some(e), Some(d)) => format!(
+            "expected {e:.1} rpm at {} ({d:+.1} %); the design's own inlet is {}",
+            q(D::Pressure, c.inlet_pressure_pa),
+            q(D::Pressure, c.design_inlet_pressure_pa)
+        ),
+        _ => format!(
+            "the design does not run at {}",
+            q(D::Pressure, c.inlet_pressure_pa)
+        ),
+    }));
+    if let Some(f) = &c.friction {
+        lines.push(Line::raw(format!(
+            "running friction that explains it: {} against {} by design{}",
+            q(D::Torque, f.implied_running_torque_n_m),
+            q(D::Torque, f.design_running_torque_n_m),
+            f.ratio.map_or(String::new(), |r| format!(" ({r:.2}×)"))
+        )));
+    }
+    if let Some(f) = &c.flow {
+        let mut s = format!(
+            "flow {} against {} for new nozzles ({:+.1} %)",
+            q(D::Flow, f.measured_m3_s),
+            q(D::Flow, f.nominal_m3_s),
+            f.deviation_percent
+        );
+        if let Some(d) = f.implied_effective_diameter_m {
+            s.push_str(&format!(
+                "; effective nozzle {} against {}",
+                q(D::SmallLength, d),
+                q(D::SmallLength, f.nominal_effective_diameter_m)
+            ));
+        }
+        lines.push(Line::raw(s));
+    }
+    if let Some(th) = &c.throw {
+        lines.push(Line::raw(format!(
+            "wetted radius {} measured, {} expected",
+            q(D::Length, th.measured_m),
+            th.expected_m.map_or("—".to_string(), |e| q(D::Length, e))
+        )));
+    }
+    lines.push(Line::raw(""));
+    lines.push(Line::styled("findings, most serious first", t.heading()));
+    for (k, f) in c.findings.iter().enumerate() {
+        let (mark, style) = if f.fault {
+            ("✗", t.bad().add_modifier(Modifier::BOLD))
+        } else {
+            ("✓", t.good())
+        };
+        lines.push(Line::from(vec![
+            Span::styled(format!(" {mark} "), style),
+            Span::raw(format!("{}. {}", k + 1, f.finding)),
+        ]));
+        lines.push(Line::styled(format!("     {}", f.evidence), t.dim()));
+    }
+    lines
+}
+
+/// Draws the Field view.
+pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
+    let t = &app.theme;
+    let mut lines = readings(app);
+    match (&app.field.result, app.measured.reading()) {
+        (_, None) => lines.push(Line::styled(
+            "type the inlet pressure (p) and the rotation (r) to check the unit against the design",
+            t.dim(),
+        )),
+        (None, Some(_)) => lines.push(Line::styled("computing…", t.dim())),
+        (Some(r), Some(_)) => {
+            if app.field.waiting {
+                lines.push(Line::styled("computing…", t.dim()));
+            }
+            match r.as_ref() {
+                Ok(c) => lines.extend(check_lines(app, c)),
+                Err(e) => lines.push(Line::styled(e.clone(), t.error())),
+            }
+        }
+    }
+    // Word wrapping can take a little more than the character count says.
+    let rows = super::wrapped_rows(&lines, area.width) * 5 / 4;
+    let max = rows.saturating_sub(area.height) as usize;
+    let scroll = app.pane_scroll.min(max) as u16;
+    frame.render_widget(
+        Paragraph::new(lines)
+            .wrap(Wrap { trim: false })
+            .scroll((scroll, 0)),
+        area,
+    );
+}

@@ -1,0 +1,112 @@
+//! The help overlay (`?`): every key, and the safety cautions.
+
+use ratatui::text::Line;
+use ratatui::widgets::{Block, Paragraph, Wrap};
+use ratatui::Frame;
+
+use super::popup;
+use crate::tui::app::App;
+
+/// Every key the interface takes, as (keys, what they do).
+pub const KEYS: &[(&str, &str)] = &[
+    ("↑ ↓  Home End", "select a field in the list"),
+    ("← →", "nudge the value a fine step (choices: change)"),
+    ("Shift+← →", "nudge a coarse step (ten fine steps)"),
+    (
+        "Enter",
+        "type a value with its unit: 2.8bar, 45psi, 6.5in, 22deg, auto",
+    ),
+    (
+        "",
+        "a bare number is taken in the unit shown; Esc cancels, Ctrl+U clears",
+    ),
+    (
+        "+  -",
+        "add an arm (a copy of the selected one) / remove the selected arm",
+    ),
+    ("*", "copy the selected arm's nozzle to every arm"),
+    (
+        "Tab  Shift+Tab  1-5",
+        "switch view: Balance, Throw, Pattern, Field, Compare",
+    ),
+    (
+        "PgUp PgDn  wheel",
+        "scroll the table or the view; the wheel over the list scrolls it",
+    ),
+    ("click", "select a field, or a view by its tab"),
+    (
+        "p  r",
+        "Field view: type measured pressure / rotation (40rpm, 1.5s, 10/14.2s)",
+    ),
+    ("c", "pin the current design for Compare"),
+    ("x", "Compare view: drop the last pinned design"),
+    ("u", "switch between metric and US units"),
+    ("s  S", "save / save as (the old file is kept as .bak)"),
+    (
+        "o",
+        "open a scenario from scenarios/ or this folder (c there: add to Compare)",
+    ),
+    ("?", "this help; any key closes it"),
+    (
+        "q  Ctrl+C",
+        "quit (asks first when there are unsaved changes)",
+    ),
+];
+
+/// Safety cautions shown with the help.
+pub const CAUTIONS: &[&str] = &[
+    "Jets and spinning arms can injure eyes: keep faces away from a running head, wear eye protection when testing.",
+    "Shut off and depressurise the supply before servicing a head, a nozzle or a hose.",
+    "On drinking-water supplies fit the backflow prevention your water authority requires.",
+    "Controllers, pumps and valves near water: keep them dry, protected and to electrical code.",
+    "Keep jets clear of overhead power lines; never let a jet reach one.",
+    "This tool estimates; local codes and licensed practice take precedence over its numbers.",
+];
+
+/// The help text as lines.
+pub fn help_lines(width: u16) -> Vec<Line<'static>> {
+    let key_w = KEYS
+        .iter()
+        .map(|(k, _)| k.chars().count())
+        .max()
+        .unwrap_or(0)
+        .min((width as usize) / 3);
+    let mut lines = vec![Line::raw("Keys")];
+    for (k, what) in KEYS {
+        lines.push(Line::raw(format!("  {k:<key_w$}  {what}")));
+    }
+    lines.push(Line::raw(""));
+    lines.push(Line::raw("Safety"));
+    for c in CAUTIONS {
+        lines.push(Line::raw(format!("  • {c}")));
+    }
+    lines
+}
+
+/// Draws the help overlay, scrolled by `scroll` lines.
+pub fn draw(app: &App, frame: &mut Frame, scroll: u16) {
+    let area = frame.area();
+    let w = area.width.saturating_sub(4).min(100);
+    let h = area.height.saturating_sub(2);
+    let r = popup(frame, w, h);
+    let block = Block::bordered()
+        .title(Line::from(" help "))
+        .title_bottom(Line::from(" ↑↓ scroll · any other key closes "))
+        .border_style(app.theme.heading());
+    let inner_w = w.saturating_sub(2);
+    let lines = help_lines(inner_w);
+    // Rows the text takes once wrapped, to stop the scroll at its end.
+    let per_row = inner_w.max(1) as usize;
+    let rows: usize = lines
+        .iter()
+        .map(|l| l.width().div_ceil(per_row).max(1))
+        .sum();
+    let max = (rows as u16).saturating_sub(h.saturating_sub(2));
+    frame.render_widget(
+        Paragraph::new(lines)
+            .wrap(Wrap { trim: false })
+            .scroll((scroll.min(max), 0))
+            .block(block),
+        r,
+    );
+}

@@ -1,0 +1,490 @@
+//! Drawing: every function here takes the state by `&` and only reads it.
+//!
+//! [`draw`] lays out the screen ([`super::layout`]) and draws the top line,
+//! the field list, the view tabs, the current view (one file each), the
+//! message line, the bottom line of keys, and any overlay (help, file
+//! picker, a question).
+
+mod balance;
+mod compare;
+mod field;
+mod help;
+mod pattern;
+mod throw;
+
+use ratatui::layout::{Constraint, Flex, Layout, Rect};
+use ratatui::style::{Modifier, Style};
+use ratatui::text::{Line, Span};
+use ratatui::widgets::{Block, Borders, Clear, Paragraph, Wrap};
+use ratatui::Frame;
+
+use super::app::{App, Confirm, InputTarget, Level, Measure, Mode, View};
+use super::fields::{self, Field, Kind, Row};
+use super::layout;
+use crate::physics::balance::{rpm, SpinStatus};
+use crate::units::{format_quantity, Dimension as D};
+
+pub use help::help_lines;
+
+/// Draws the whole screen.
+pub fn draw(app: &App, frame: &mut Frame) {
+    let a = layout::areas(frame.area());
+    draw_top(app, frame, a.top);
+    draw_list(app, frame, a.left, a.list);
+    draw_tabs(app, frame, a.tabs);
+    match app.view {
+        View::Balance => balance::draw(app, frame, a.view),
+        View::Throw => throw::draw(app, frame, a.view),
+        View::Pattern => pattern::draw(app, frame, a.view),
+        View::Field => field::draw(app, frame, a.view),
+        View::Compare => compare::draw(app, frame, a.view),
+    }
+    draw_message(app, frame, a.message);
+    draw_bottom(app, frame, a.bottom);
+    match &app.mode {
+        Mode::Help(scroll) => help::draw(app, frame, *scroll),
+        Mode::Picker(p) => draw_picker(app, frame, p),
+        Mode::Confirm(c) => draw_confirm(app, frame, c),
+        Mode::Normal | Mode::Typing(_) => {}
+    }
+}
+
+/// The headline's speed: rpm, or the state in words.
+pub fn speed_word(app: &App) -> String {
+    match (&app.report.status, &app.report.operating) {
+        (SpinStatus::Running, Some(op)) => format!("{:.1} rpm", rpm(op.omega_rad_s())),
+        (SpinStatus::StallsAtRest, _) => "stalls at rest".to_string(),
+        _ => "no equilibrium".to_string(),
+    }
+}
+
+fn draw_top(app: &App, frame: &mut Frame, area: Rect) {
+    let t = &app.theme;
+    let waiting = app.computing && app.spray.is_none();
+    let throw = match app.spray.as_ref().and_then(|s| s.wetted_radius_m()) {
+        Some(r) => format_quantity(D::Length, r, app.units),
+        None if waiting => "…".to_string(),
+        None => "n/a".to_string(),
+    };
+    let cu = if app.design.layout.is_none() {
+        "no layout".to_string()
+    } else {
+        match app.spray.as_ref().and_then(|s| s.cu_percent()) {
+            Some(c) => format!("{c:.1} %"),
+            None if waiting => "…".to_string(),
+            None => "n/a".to_string(),
+        }
+    };
+    let margin = app
+        .report
+        .start_margin
+        .map_or("n/a".to_string(), |m| format!("{m:.2}"));
+    let wide = area.width >= 110;
+    let mut spans = Vec::new();
+    if wide {
+        spans.push(Span::styled(
+            " spinwright ",
+            t.bar().add_modifier(Modifier::BOLD),
+        ));
+    }
+    spans.push(Span::raw(" "));
+    spans.push(Span::styled(
+        app.design.name.clone(),
+        Style::default().add_modifier(Modifier::BOLD),
+    ));
+    if app.dirty {
+        spans.push(Span::styled(" ● unsaved", t.warning()));
+    }
+    let sep = || Span::styled(" │ ", t.dim());
+    spans.extend([
+        sep(),
+        Span::raw(speed_word(app)),
+        sep(),
+        Span::raw(format!(
+            "{} {margin}",
+            if wide { "start margin" } else { "margin" }
+        )),
+        sep(),
+        Span::raw(format!("throw {throw}")),
+        sep(),
+        Span::raw(format!("CU {cu}")),
+    ]);
+    if app.computing {
+        spans.push(Span::styled("  computing…", t.dim()));
+    }
+    frame.render_widget(Paragraph::new(Line::from(spans)), area);
+}
+
+/// A label and a value on one line `width` wide, the value right-aligned.
+fn label_value(indent: usize, label: &str, value: &str, width: usize) -> String {
+    let label_w = label.chars().count();
+    let value: String = {
+        let room = width.saturating_sub(indent + label_w.min(16) + 1);
+        let n = value.chars().count();
+        if n > room {
+            let mut v: String = value.chars().take(room.saturating_sub(1)).collect();
+            v.push('…');
+            v
+        } else {
+            value.to_string()
+        }
+    };
+    let used = indent + label_w + value.chars().count();
+    let gap = width.saturating_sub(used).max(1);
+    let line = format!("{}{label}{}{value}", " ".repeat(indent), " ".repeat(gap));
+    line.chars().take(width).collect()
+}
+
+fn draw_list(app: &App, frame: &mut Frame, left: Rect, list: Rect) {
+    let t = &app.theme;
+    frame.render_widget(
+        Block::default()
+            .borders(Borders::RIGHT)
+            .border_style(t.dim()),
+        left,
+    );
+    let w = list.width as usize;
+    let typing = match &app.mode {
+        Mode::Typing(input) => match input.target {
+            InputTarget::Field(f) => Some((f, input.text.as_str())),
+            _ => None,
+        },
+        _ => None,
+    };
+    let n_arms = app.design.rotor.arms.len();
+    let lines: Vec<Line> = app
+        .rows
+        .iter()
+        .enumerate()
+        .skip(app.list_offset)
+        .take(list.height as usize)
+        .map(|(i, row)| match row {
+            Row::Group(g) => Line::styled(format!("▍{}", g.title()), t.heading()),
+            Row::ArmHeading(k) => {
+                let head = format!("  arm {} of {n_arms} ", k + 1);
+                let fill = w.saturating_sub(head.chars().count());
+                Line::styled(format!("{head}{}", "╌".repeat(fill)), t.dim())
+            }
+            Row::Field(f) => {
+                let indent = if f.arm().is_some() { 3 } else { 2 };
+                let value = match typing {
+                    Some((tf, text)) if tf == *f => format!("{text}▏"),
+                    _ => fields::show(&f.get(&app.design), app.units),
+                };
+                let text = label_value(indent, f.label(), &value, w);
+                if i == app.selected {
+                    Line::styled(text, t.selected())
+                } else {
+                    Line::raw(text)
+                }
+            }
+        })
+        .collect();
+    frame.render_widget(Paragraph::new(lines), list);
+}
+
+fn draw_tabs(app: &App, frame: &mut Frame, area: Rect) {
+    let t = &app.theme;
+    let mut spans = vec![Span::raw(" ")];
+    for (v, label, _, _) in layout::tab_spans(area.width) {
+        let style = if v == app.view {
+            t.selected().add_modifier(Modifier::BOLD)
+        } else {
+            t.dim()
+        };
+        spans.push(Span::styled(label, style));
+        spans.push(Span::raw(" "));
+    }
+    frame.render_widget(Paragraph::new(Line::from(spans)), area);
+}
+
+fn field_hint(app: &App, f: Field) -> String {
+    let step = |coarse| {
+        let s = fields::display_step(f, app.units, coarse);
+        match f.dimension() {
+            Some(dim) => {
+                let label = crate::units::unit_label(dim, app.units);
+                let n = crate::units::format_number(s);
+                if label == "°" {
+                    format!("{n}°")
+                } else {
+                    format!("{n} {label}")
+                }
+            }
+            None => crate::units::format_number(s),
+        }
+    };
+    let what = f.describe();
+    let arm = f
+        .arm()
+        .map(|k| format!(" (arm {})", k + 1))
+        .unwrap_or_default();
+    match f.kind() {
+        Kind::Choice => format!("{what}{arm} · ←/→ change"),
+        Kind::Text => format!("{what} · Enter to type"),
+        Kind::Number | Kind::OptionalNumber => format!(
+            "{what}{arm} · ←/→ ±{} · ⇧ ±{}{}",
+            step(false),
+            step(true),
+            if f.kind() == Kind::OptionalNumber {
+                " · Enter: a value or auto"
+            } else {
+                ""
+            }
+        ),
+    }
+}
+
+fn draw_message(app: &App, frame: &mut Frame, area: Rect) {
+    let t = &app.theme;
+    let line = match (&app.mode, &app.message) {
+        (Mode::Typing(input), _) => {
+            let what = match input.target {
+                InputTarget::Field(f) => {
+                    let unit = f
+                        .dimension()
+                        .map(|d| {
+                            format!(
+                                " with its unit (e.g. {}; a bare number is in {})",
+                                d.example(),
+                                crate::units::unit_label(d, app.units)
+                            )
+                        })
+                        .unwrap_or_default();
+                    format!("type {}{unit}", f.label())
+                }
+                InputTarget::SaveAs => "save as (a .ron file name)".to_string(),
+                InputTarget::Measured(Measure::Pressure) => {
+                    "measured inlet pressure, e.g. 2.8bar or 40psi".to_string()
+                }
+                InputTarget::Measured(Measure::Rotation) => {
+                    "measured rotation: 40rpm, 1.5s per turn, or 10/14.2s".to_string()
+                }
+                InputTarget::Measured(Measure::Flow) => {
+                    "measured flow: 12L/min, or 5L in 30s".to_string()
+                }
+                InputTarget::Measured(Measure::Throw) => {
+                    "measured wetted radius, e.g. 7.5m or 25ft".to_string()
+                }
+            };
+            match input.target {
+                InputTarget::Field(_) => Line::styled(format!(" {what}"), t.dim()),
+                _ => Line::from(vec![
+                    Span::styled(format!(" {what}: "), t.dim()),
+                    Span::raw(format!("{}▏", input.text)),
+                ]),
+            }
+        }
+        (_, Some(m)) => {
+            let style = match m.level {
+                Level::Error => t.error(),
+                Level::Info => t.good(),
+            };
+            Line::styled(format!(" {}", m.text), style)
+        }
+        (_, None) => match app.selected_field() {
+            Some(f) => Line::styled(format!(" {}", field_hint(app, f)), t.dim()),
+            None => Line::raw(""),
+        },
+    };
+    frame.render_widget(Paragraph::new(line), area);
+}
+
+/// The keys that work in the present state, most useful first.
+pub fn keys_here(app: &App) -> Vec<(&'static str, &'static str)> {
+    match &app.mode {
+        Mode::Typing(_) => vec![
+            ("Enter", "keep"),
+            ("Esc", "cancel"),
+            ("Bksp", "delete"),
+            ("^U", "clear"),
+        ],
+        Mode::Help(_) => vec![("↑↓", "scroll"), ("any other key", "close")],
+        Mode::Picker(_) => vec![
+            ("↑↓", "choose"),
+            ("Enter", "open"),
+            ("c", "add to Compare"),
+            ("Esc", "close"),
+        ],
+        Mode::Confirm(Confirm::QuitUnsaved) => vec![
+            ("s", "save and quit"),
+            ("y", "quit without saving"),
+            ("Esc", "stay"),
+        ],
+        Mode::Confirm(_) => vec![("y", "yes"), ("n/Esc", "no")],
+        Mode::Normal => {
+            let mut k = vec![("?", "help"), ("↑↓", "field")];
+            match app.selected_field().map(|f| (f, f.kind())) {
+                Some((_, Kind::Choice)) => k.push(("←→", "change")),
+                Some((_, Kind::Text)) => k.push(("Enter", "type")),
+                Some(_) => k.extend([("←→", "nudge"), ("⇧←→", "coarse"), ("Enter", "type")]),
+                None => {}
+            }
+            if app.selected_field().and_then(Field::arm).is_some() {
+                k.extend([("+", "arm"), ("-", "arm"), ("*", "nozzle to all")]);
+            }
+            match app.view {
+                View::Balance => k.push(("PgUp/Dn", "table")),
+                View::Field => k.extend([
+                    ("p", "pressure"),
+                    ("r", "rotation"),
+                    ("f", "flow"),
+                    ("t", "throw"),
+                ]),
+                View::Compare => k.push(("x", "unpin")),
+                View::Throw | View::Pattern => {}
+            }
+            k.extend([
+                ("Tab/1-5", "view"),
+                ("u", "units"),
+                ("s", "save"),
+                ("S", "save as"),
+                ("o", "open"),
+                ("c", "pin"),
+                ("q", "quit"),
+            ]);
+            k
+        }
+    }
+}
+
+fn draw_bottom(app: &App, frame: &mut Frame, area: Rect) {
+    let t = &app.theme;
+    let mut spans = Vec::new();
+    let mut used = 0usize;
+    let width = area.width as usize;
+    for (key, what) in keys_here(app) {
+        let n = key.chars().count() + what.chars().count() + 3;
+        if used + n > width {
+            break;
+        }
+        spans.push(Span::styled(
+            format!(" {key}"),
+            t.bar().add_modifier(Modifier::BOLD),
+        ));
+        spans.push(Span::styled(format!(" {what} "), t.bar()));
+        used += n;
+    }
+    let fill = width.saturating_sub(used);
+    spans.push(Span::styled(" ".repeat(fill), t.bar()));
+    frame.render_widget(Paragraph::new(Line::from(spans)), area);
+}
+
+/// A centred box `w` × `h` (at most the area), cleared.
+pub fn popup(frame: &mut Frame, w: u16, h: u16) -> Rect {
+    let area = frame.area();
+    let [v] = Layout::vertical([Constraint::Length(h.min(area.height))])
+        .flex(Flex::Center)
+        .areas(area);
+    let [r] = Layout::horizontal([Constraint::Length(w.min(area.width))])
+        .flex(Flex::Center)
+        .areas(v);
+    frame.render_widget(Clear, r);
+    r
+}
+
+fn draw_picker(app: &App, frame: &mut Frame, p: &super::app::Picker) {
+    let t = &app.theme;
+    let h = (p.files.len() as u16 + 4).min(frame.area().height.saturating_sub(2));
+    let r = popup(frame, 60, h);
+    let block = Block::bordered()
+        .title(Line::from(" open a scenario "))
+        .title_bottom(Line::from(" Enter open · c add to Compare · Esc close "))
+        .border_style(t.heading());
+    let inner = block.inner(r);
+    frame.render_widget(block, r);
+    let visible = inner.height as usize;
+    let start = p.selected.saturating_sub(visible.saturating_sub(1));
+    let lines: Vec<Line> = p
+        .files
+        .iter()
+        .enumerate()
+        .skip(start)
+        .take(visible)
+        .map(|(i, f)| {
+            let text = format!(" {}", f.display());
+            if i == p.selected {
+                Line::styled(text, t.selected())
+            } else {
+                Line::raw(text)
+            }
+        })
+        .collect();
+    frame.render_widget(Paragraph::new(lines), inner);
+}
+
+fn draw_confirm(app: &App, frame: &mut Frame, c: &Confirm) {
+    let t = &app.theme;
+    let (title, text) = match c {
+        Confirm::QuitUnsaved => (
+            " unsaved changes ",
+            "The design has changes that are not saved.\n\ns  save, then quit\ny  quit without saving\nEsc  stay".to_string(),
+        ),
+        Confirm::OpenUnsaved(p) => (
+            " unsaved changes ",
+            format!(
+                "Open {} and drop the unsaved changes?\n\ny  open it\nn  stay (then s to save)",
+                p.display()
+            ),
+        ),
+        Confirm::OverwriteChanged(p) => (
+            " changed on disk ",
+            format!(
+                "{} has changed on disk since it was opened or saved here.\n\ny  overwrite it (the old file is kept as .bak)\nn  do not save (S saves under another name)",
+                p.display()
+            ),
+        ),
+        Confirm::OverwriteExisting(p) => (
+            " file exists ",
+            format!(
+                "{} already exists.\n\ny  overwrite it (the old file is kept as .bak)\nn  do not save",
+                p.display()
+            ),
+        ),
+    };
+    let r = popup(frame, 64, 9);
+    let block = Block::bordered()
+        .title(Line::from(title))
+        .border_style(t.warning());
+    frame.render_widget(
+        Paragraph::new(text).wrap(Wrap { trim: false }).block(block),
+        r,
+    );
+}
+
+/// Rounds a value for display in a table cell: 3 significant figures.
+pub fn num(v: f64) -> String {
+    crate::units::format_number(v)
+}
+
+/// A message shown in a view while its results are being computed, or why they are missing.
+pub fn waiting_line(app: &App) -> Line<'static> {
+    if app.computing {
+        Line::styled(" computing…", app.theme.dim())
+    } else {
+        Line::styled(" no results", app.theme.dim())
+    }
+}
+
+/// The fixed-width headings of a table's columns with units.
+pub fn unit(dim: D, app: &App) -> &'static str {
+    crate::units::unit_label(dim, app.units)
+}
+
+/// Draws `lines` in `area` scrolled by the view's scroll, clamped.
+pub fn scrolled(app: &App, lines: Vec<Line<'static>>, frame: &mut Frame, area: Rect) {
+    let max = lines.len().saturating_sub(area.height as usize);
+    let s = app.pane_scroll.min(max);
+    let shown: Vec<Line> = lines.into_iter().skip(s).collect();
+    frame.render_widget(Paragraph::new(shown), area);
+}
+
+/// Rows `lines` take when wrapped to `width` (by characters; word wrapping
+/// can take a row or so more).
+pub fn wrapped_rows(lines: &[Line], width: u16) -> u16 {
+    let w = width.max(1) as usize;
+    lines
+        .iter()
+        .map(|l| l.width().div_ceil(w).max(1) as u16)
+        .sum()
+}
