@@ -3,6 +3,7 @@ mod catch_can_audit;
 mod cli;
 mod engine_properties;
 mod engine_reference;
+mod fuzz;
 mod pattern_conservation;
 mod reference_fluid;
 mod reference_pipe;

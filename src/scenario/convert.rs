@@ -142,9 +142,14 @@ impl Checker {
         }
     }
 
+    /// A value in [lo, hi]. The ends are widened by 10⁻⁹ of the range's size so
+    /// that a value written at an end in other units (−500 m saved as
+    /// `ft(-1640.41994751)`, 12 significant figures) reads back as valid;
+    /// the value itself is kept as written.
     fn between<T: Written>(&mut self, path: &str, v: T, lo: f64, hi: f64, rule: &str) -> f64 {
+        let slack = 1e-9 * lo.abs().max(hi.abs());
         match self.finite(path, v) {
-            Some(si) if (lo..=hi).contains(&si) => si,
+            Some(si) if (lo - slack..=hi + slack).contains(&si) => si,
             Some(si) => {
                 self.push(path, v, rule);
                 si
@@ -346,7 +351,8 @@ impl Scenario {
                 len
             });
             let diameter_m = c.positive(&p("nozzle.diameter"), arm.nozzle.diameter);
-            if diameter_m > 0.0 && bore_m > 0.0 && diameter_m > bore_m {
+            // (10⁻⁹ slack: a nozzle as wide as its tube, saved in other units, reads back)
+            if diameter_m > 0.0 && bore_m > 0.0 && diameter_m > bore_m * (1.0 + 1e-9) {
                 c.push(
                     &p("nozzle.diameter"),
                     arm.nozzle.diameter,
@@ -401,11 +407,10 @@ impl Scenario {
             } => {
                 let wall_path = "rotor.inertia.Estimate.tube_wall";
                 let tube_wall_m = c.positive(wall_path, tube_wall);
-                if let Some((i, arm)) = arms
-                    .iter()
-                    .enumerate()
-                    .find(|(_, a)| a.tube.outer_m > 0.0 && tube_wall_m > a.tube.outer_m / 2.0)
-                {
+                if let Some((i, arm)) = arms.iter().enumerate().find(|(_, a)| {
+                    // 10⁻⁹ slack for a value saved at the limit in other units.
+                    a.tube.outer_m > 0.0 && tube_wall_m > a.tube.outer_m / 2.0 * (1.0 + 1e-9)
+                }) {
                     c.push(
                         wall_path,
                         tube_wall,
