@@ -54,7 +54,7 @@ use crate::support::root;
 
 /// The first `NaN` or `inf` word outside string literals in `text`, with the
 /// text before it for context.
-fn non_finite_word(text: &str) -> Option<String> {
+pub fn non_finite_word(text: &str) -> Option<String> {
     let mut in_str = false;
     let mut escaped = false;
     let mut word_start: Option<usize> = None;
@@ -859,6 +859,35 @@ fn the_scanner_finds_non_finite_numbers() {
     assert!(non_finite_word("x: inf").is_some());
     assert!(non_finite_word("name: \"NaN inf\", a: 1.5e-3, info: 2").is_none());
     assert!(non_finite_word("name: \"say \\\"NaN\\\"\", a: 1").is_none());
+}
+
+#[test]
+fn values_beyond_the_model_are_refused_with_their_field() {
+    let text = std::fs::read_to_string(root().join("tests/fuzz-regressions/swivel-bore-tiny.ron"))
+        .expect("regression input");
+    let err = scenario::load_str(&text, "tiny.ron").expect_err("refused");
+    let msg = format!("{err:#}");
+    assert!(
+        msg.contains("rotor.swivel.inlet_bore") && msg.contains("too small"),
+        "{msg}"
+    );
+    let huge = std::fs::read_to_string(root().join("scenarios/lawn-rotor.ron"))
+        .expect("shipped scenario")
+        .replace("Pressure(kPa(300))", "Pressure(kPa(1e300))");
+    let msg = format!(
+        "{:#}",
+        scenario::load_str(&huge, "huge.ron").expect_err("refused")
+    );
+    assert!(
+        msg.contains("supply.Pressure") && msg.contains("too large"),
+        "{msg}"
+    );
+    let csv = std::fs::read_to_string(root().join("tests/fuzz-regressions/catch-1e308.csv"))
+        .expect("regression input");
+    let msg = parse_catch_cans(&csv, "big.csv")
+        .expect_err("refused")
+        .to_string();
+    assert!(msg.contains("too large"), "{msg}");
 }
 
 #[test]

@@ -116,12 +116,48 @@ impl Checker {
         }
     }
 
+    /// The SI value if it is finite and of a size the model computes with:
+    /// at most [`MAX_MAGNITUDE_SI`], and, unless zero, at least
+    /// [`MIN_MAGNITUDE_SI`] (a bore of 10⁻²⁰⁴ m has an area of zero in
+    /// floating point, a pressure of 10³⁰⁰ Pa overflows the flow equations).
+    fn sized<T: Written>(&mut self, path: &str, v: T) -> Option<f64> {
+        let si = self.finite(path, v)?;
+        if si.abs() > MAX_MAGNITUDE_SI {
+            self.push(
+                path,
+                v,
+                "is too large for the model (more than 1e9 in SI units: m, Pa, m³/s, N·m, kg)",
+            );
+            None
+        } else if si != 0.0 && si.abs() < MIN_MAGNITUDE_SI {
+            self.push(
+                path,
+                v,
+                "is too small for the model (less than 1e-9 in SI units: m, Pa, m³/s, N·m, kg); write 0 where zero is allowed",
+            );
+            None
+        } else {
+            Some(si)
+        }
+    }
+
     fn any<T: Written>(&mut self, path: &str, v: T) -> f64 {
-        self.finite(path, v).unwrap_or(0.0)
+        match self.finite(path, v) {
+            Some(si) if si.abs() > MAX_MAGNITUDE_SI => {
+                self.push(
+                    path,
+                    v,
+                    "is too large for the model (more than 1e9 in SI units)",
+                );
+                0.0
+            }
+            Some(si) => si,
+            None => 0.0,
+        }
     }
 
     fn positive<T: Written>(&mut self, path: &str, v: T) -> f64 {
-        match self.finite(path, v) {
+        match self.sized(path, v) {
             Some(si) if si > 0.0 => si,
             Some(_) => {
                 self.push(path, v, "must be greater than zero");
@@ -132,7 +168,7 @@ impl Checker {
     }
 
     fn non_negative<T: Written>(&mut self, path: &str, v: T) -> f64 {
-        match self.finite(path, v) {
+        match self.sized(path, v) {
             Some(si) if si >= 0.0 => si,
             Some(_) => {
                 self.push(path, v, "must not be negative");
@@ -172,6 +208,13 @@ impl Checker {
 }
 
 const DEG: f64 = std::f64::consts::PI / 180.0;
+
+/// Largest size of a value the model computes with, in SI units. Far above
+/// any sprinkler (1 GPa, 1e9 m³/s), far below floating-point overflow.
+const MAX_MAGNITUDE_SI: f64 = 1e9;
+/// Smallest non-zero size of a value the model computes with, in SI units
+/// (1 nm, 1 nPa, 1 nN·m): far below any sprinkler part, far above underflow.
+const MIN_MAGNITUDE_SI: f64 = 1e-9;
 
 impl Scenario {
     /// Checks every value and builds the SI design the physics core takes.
