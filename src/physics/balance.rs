@@ -499,7 +499,18 @@ pub fn solve_with(design: &Design, options: &SolveOptions) -> SpinReport {
     let breakaway = rest.resist.total_n_m();
     let torque_scale = stall.abs().max(breakaway).max(1e-12);
     let start_margin = (breakaway > 0.0).then(|| stall / breakaway);
-    if stall <= 0.0 {
+    // Radial jets (δ = 90°) give a drive of cos 90° ≈ 6e-17 of the
+    // tangential momentum flux, not exactly zero: compare with that flux.
+    let rho = model.fluids.water.density_kg_m3;
+    let tangential_flux_n_m: f64 = design
+        .rotor
+        .arms
+        .iter()
+        .zip(&rest_state.nozzles)
+        .map(|(a, n)| rho * n.flow_m3_s * n.jet_speed_relative_m_s * a.radius_m)
+        .sum();
+    let no_drive_at_rest = stall <= 1e-9 * tangential_flux_n_m;
+    if no_drive_at_rest {
         warnings.push(Warning::NoDriveAtRest);
     }
     if let super::design::Bearing::Washer(w) = design.friction.bearing {
@@ -509,7 +520,7 @@ pub fn solve_with(design: &Design, options: &SolveOptions) -> SpinReport {
     }
 
     // Frictionless runaway: first fall of drive torque through zero.
-    let runaway = if stall > 0.0 {
+    let runaway = if !no_drive_at_rest {
         let (roots, errs) = scan_roots(
             |w| model.drive(w),
             stall,
@@ -524,7 +535,7 @@ pub fn solve_with(design: &Design, options: &SolveOptions) -> SpinReport {
     } else {
         None
     };
-    if runaway.is_none() && stall > 0.0 {
+    if runaway.is_none() && !no_drive_at_rest {
         warnings.push(Warning::NoFiniteRunaway);
     }
     let cap = runaway.map_or(tip_cap, |r| (3.0 * r).max(tip_cap));
@@ -541,7 +552,7 @@ pub fn solve_with(design: &Design, options: &SolveOptions) -> SpinReport {
     );
     warnings.extend(errs.into_iter().map(Warning::RootSearch));
 
-    let starts = start_margin.map_or(stall > 0.0, |m| m > 1.0);
+    let starts = !no_drive_at_rest && start_margin.map_or(stall > 0.0, |m| m > 1.0);
     let inertia = model.inertia_kg_m2();
     // The first root reached from rest is the operating point, if net is
     // positive just off rest (kinetic friction) and that root is stable.

@@ -126,7 +126,8 @@ fn bracketed_newton(
     x_tol: f64,
     f_tol: f64,
 ) -> (f64, f64, f64) {
-    let mut x = start.clamp(lo, hi);
+    // max/min, not clamp: clamp panics when a bound is NaN.
+    let mut x = start.max(lo).min(hi);
     let (mut fx, mut dfx) = f(x);
     for _ in 0..100 {
         if fx.abs() <= f_tol {
