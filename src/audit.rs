@@ -260,6 +260,18 @@ pub fn parse_catch_cans(text: &str, file: &str) -> Result<CatchCanData, AuditErr
                 return Err(field_err(line, col + 1, format!("{what} is missing")));
             }
             match raw.parse::<f64>() {
+                Ok(v) if v.is_finite() && v.abs() > 1e9 => Err(field_err(
+                    line,
+                    col + 1,
+                    format!("{what} '{raw}' is too large to rate (more than 1e9)"),
+                )),
+                Ok(v) if v != 0.0 && v.abs() < 1e-9 => Err(field_err(
+                    line,
+                    col + 1,
+                    format!(
+                        "{what} '{raw}' is too small to rate (less than 1e-9; write 0 for none)"
+                    ),
+                )),
                 Ok(v) if v.is_finite() => Ok(v),
                 _ => Err(field_err(
                     line,

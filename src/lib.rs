@@ -10,6 +10,18 @@
 //! - [`tui`]: the terminal interface, the other thin layer (the only terminal code).
 //! - [`crash`]: the panic hook: terminal restored, crash report written.
 #![warn(missing_docs)]
+// No panic reachable from input in the library proper. The unit tests are
+// compiled with `cfg(test)` and may unwrap; the integration tests in tests/ are
+// another crate and do not see these attributes.
+#![cfg_attr(
+    not(test),
+    deny(
+        clippy::unwrap_used,
+        clippy::expect_used,
+        clippy::indexing_slicing,
+        clippy::panic
+    )
+)]
 
 pub mod audit;
 pub mod cli;

@@ -202,7 +202,9 @@ impl Dimension {
 
     /// The units accepted for this dimension, as they are usually written.
     pub fn accepted_units(self) -> Vec<&'static str> {
-        units_of(self).map(|u| u.aliases[0]).collect()
+        units_of(self)
+            .filter_map(|u| u.aliases.first().copied())
+            .collect()
     }
 
     fn family(self) -> Dimension {

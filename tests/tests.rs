@@ -3,6 +3,8 @@ mod catch_can_audit;
 mod cli;
 mod engine_properties;
 mod engine_reference;
+mod extreme_designs;
+mod fuzz;
 mod inverse;
 mod pattern_conservation;
 mod reference_fluid;

@@ -105,7 +105,7 @@ pub fn depth_map(result: &LayoutResult, width: usize) -> Vec<String> {
                     } else {
                         SHADES.len() - 1
                     };
-                    let ch = SHADES[level.min(SHADES.len() - 1)];
+                    let ch = SHADES.get(level).or(SHADES.last()).copied().unwrap_or(' ');
                     format!("{ch}{ch}")
                 })
                 .collect()

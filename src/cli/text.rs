@@ -28,10 +28,10 @@ impl TextTable {
 
     /// The table as text, each line indented by `indent` spaces.
     pub fn render(&self, indent: usize) -> String {
-        let widths: Vec<usize> = (0..self.headers.len())
-            .map(|c| {
-                std::iter::once(&self.headers[c])
-                    .chain(self.rows.iter().map(|r| &r[c]))
+        let widths: Vec<usize> = (self.headers.iter().enumerate())
+            .map(|(c, header)| {
+                std::iter::once(header)
+                    .chain(self.rows.iter().filter_map(|r| r.get(c)))
                     .map(|s| s.chars().count())
                     .max()
                     .unwrap_or(0)

@@ -415,10 +415,12 @@ fn scan_roots(
                 Err(e) => errors.push(e),
             }
         };
-    let mut samples: Vec<(f64, f64)> = vec![(0.0, at_zero)];
+    // The last sample and the one before it.
+    let mut last: (f64, f64) = (0.0, at_zero);
+    let mut before_last: Option<(f64, f64)> = None;
     for w in scan_grid(cap, floor, points) {
         let y = f(w);
-        let (w1, y1) = samples[samples.len() - 1];
+        let (w1, y1) = last;
         if y1 == 0.0 && w1 > 0.0 {
             found.push(Equilibrium {
                 omega_rad_s: w1,
@@ -426,9 +428,8 @@ fn scan_roots(
             });
         } else if y1 != 0.0 && y != 0.0 && y1.signum() != y.signum() {
             polish(&mut f, w1, y1, w, &mut found);
-        } else if samples.len() >= 2 {
+        } else if let Some((w0, y0)) = before_last {
             // A dip toward zero at the middle of the last three samples.
-            let (w0, y0) = samples[samples.len() - 2];
             let same = y0.signum() == y1.signum() && y1.signum() == y.signum() && y1 != 0.0;
             if same && y1.abs() < y0.abs() && y1.abs() < y.abs() {
                 let sign = y1.signum();
@@ -439,7 +440,8 @@ fn scan_roots(
                 }
             }
         }
-        samples.push((w, y));
+        before_last = Some(last);
+        last = (w, y);
         if first_only && !found.is_empty() {
             break;
         }
@@ -497,7 +499,18 @@ pub fn solve_with(design: &Design, options: &SolveOptions) -> SpinReport {
     let breakaway = rest.resist.total_n_m();
     let torque_scale = stall.abs().max(breakaway).max(1e-12);
     let start_margin = (breakaway > 0.0).then(|| stall / breakaway);
-    if stall <= 0.0 {
+    // Radial jets (δ = 90°) give a drive of cos 90° ≈ 6e-17 of the
+    // tangential momentum flux, not exactly zero: compare with that flux.
+    let rho = model.fluids.water.density_kg_m3;
+    let tangential_flux_n_m: f64 = design
+        .rotor
+        .arms
+        .iter()
+        .zip(&rest_state.nozzles)
+        .map(|(a, n)| rho * n.flow_m3_s * n.jet_speed_relative_m_s * a.radius_m)
+        .sum();
+    let no_drive_at_rest = stall <= 1e-9 * tangential_flux_n_m;
+    if no_drive_at_rest {
         warnings.push(Warning::NoDriveAtRest);
     }
     if let super::design::Bearing::Washer(w) = design.friction.bearing {
@@ -507,7 +520,7 @@ pub fn solve_with(design: &Design, options: &SolveOptions) -> SpinReport {
     }
 
     // Frictionless runaway: first fall of drive torque through zero.
-    let runaway = if stall > 0.0 {
+    let runaway = if !no_drive_at_rest {
         let (roots, errs) = scan_roots(
             |w| model.drive(w),
             stall,
@@ -522,7 +535,7 @@ pub fn solve_with(design: &Design, options: &SolveOptions) -> SpinReport {
     } else {
         None
     };
-    if runaway.is_none() && stall > 0.0 {
+    if runaway.is_none() && !no_drive_at_rest {
         warnings.push(Warning::NoFiniteRunaway);
     }
     let cap = runaway.map_or(tip_cap, |r| (3.0 * r).max(tip_cap));
@@ -539,7 +552,7 @@ pub fn solve_with(design: &Design, options: &SolveOptions) -> SpinReport {
     );
     warnings.extend(errs.into_iter().map(Warning::RootSearch));
 
-    let starts = start_margin.map_or(stall > 0.0, |m| m > 1.0);
+    let starts = !no_drive_at_rest && start_margin.map_or(stall > 0.0, |m| m > 1.0);
     let inertia = model.inertia_kg_m2();
     // The first root reached from rest is the operating point, if net is
     // positive just off rest (kinetic friction) and that root is stable.

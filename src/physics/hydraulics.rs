@@ -126,7 +126,8 @@ fn bracketed_newton(
     x_tol: f64,
     f_tol: f64,
 ) -> (f64, f64, f64) {
-    let mut x = start.clamp(lo, hi);
+    // max/min, not clamp: clamp panics when a bound is NaN.
+    let mut x = start.max(lo).min(hi);
     let (mut fx, mut dfx) = f(x);
     for _ in 0..100 {
         if fx.abs() <= f_tol {
@@ -277,11 +278,17 @@ impl NozzleSet<'_> {
         let mut slope = vec![0.0; n];
         for _ in 0..40 {
             let mut total = 0.0;
-            for (k, (c, flow)) in self.coeffs.iter().zip(&self.flows).enumerate() {
+            for (((c, flow), r), d) in self
+                .coeffs
+                .iter()
+                .zip(&self.flows)
+                .zip(residual.iter_mut())
+                .zip(slope.iter_mut())
+            {
                 let q = flow.flow_m3_s;
                 let (arm, arm_slope) = c.tube.loss_with_slope(q, rho, mu);
-                residual[k] = c.a * q * q + arm - (p + c.head_gain_pa);
-                slope[k] = 2.0 * c.a * q + arm_slope;
+                *r = c.a * q * q + arm - (p + c.head_gain_pa);
+                *d = 2.0 * c.a * q + arm_slope;
                 total += q;
             }
             let (r0, dr0_dp, dr0_dq) = closing(p, total);
@@ -293,8 +300,8 @@ impl NozzleSet<'_> {
             }
             p += dp;
             let mut settled = dp.abs() <= 1e-10 * p_scale;
-            for (k, flow) in self.flows.iter_mut().enumerate() {
-                let dq = (dp - residual[k]) / slope[k];
+            for ((flow, r), d) in self.flows.iter_mut().zip(&residual).zip(&slope) {
+                let dq = (dp - r) / d;
                 flow.flow_m3_s += dq;
                 if flow.flow_m3_s.is_nan() || flow.flow_m3_s <= 0.0 {
                     return None;

@@ -106,7 +106,11 @@ impl MeasuredLeg {
             }
         }
         points.sort_by(|a, b| a.0.total_cmp(&b.0));
-        if points.windows(2).any(|w| w[0].0 == w[1].0) {
+        if points
+            .iter()
+            .zip(points.iter().skip(1))
+            .any(|(a, b)| a.0 == b.0)
+        {
             return Err(ThrowError::InvalidInput {
                 field: "radial leg".to_string(),
                 detail: "has two cans at the same distance".to_string(),
@@ -148,8 +152,7 @@ impl HeadPattern for MeasuredLeg {
         if let Some(&(r0, q0)) = self.points.first() {
             total += q0 * PI * r0 * r0;
         }
-        for w in self.points.windows(2) {
-            let ((a, qa), (b, qb)) = (w[0], w[1]);
+        for (&(a, qa), &(b, qb)) in self.points.iter().zip(self.points.iter().skip(1)) {
             // ∫_a^b (qa + s (r − a)) 2πr dr, s = (qb − qa)/(b − a).
             let s = (qb - qa) / (b - a);
             let c = qa - s * a;
@@ -204,7 +207,7 @@ fn validated(catches: &[f64]) -> Result<(Vec<f64>, f64), ThrowError> {
             return Err(invalid(&format!("catch {}", i + 1), c, "zero or more"));
         }
     }
-    let mean = catches.iter().sum::<f64>() / catches.len() as f64;
+    let mean = mean_of(catches.iter().copied());
     if mean <= 0.0 {
         return Err(ThrowError::InvalidInput {
             field: "catches".to_string(),
@@ -216,16 +219,33 @@ fn validated(catches: &[f64]) -> Result<(Vec<f64>, f64), ThrowError> {
     Ok((sorted, mean))
 }
 
+/// Mean of finite values, without overflow: when the plain sum overflows
+/// (catches near the largest float), each value is divided first.
+fn mean_of(values: impl Iterator<Item = f64> + Clone) -> f64 {
+    let n = values.clone().count().max(1) as f64;
+    let mean = values.clone().sum::<f64>() / n;
+    if mean.is_finite() {
+        mean
+    } else {
+        values.map(|v| v / n).sum()
+    }
+}
+
+/// CU from the mean absolute deviation, which cannot overflow.
+fn cu_of(catches: &[f64], mean: f64) -> f64 {
+    let mean_dev = mean_of(catches.iter().map(|c| (c - mean).abs()));
+    100.0 * (1.0 - mean_dev / mean)
+}
+
 /// Christiansen coefficient of uniformity, %.
 pub fn christiansen_cu_percent(catches: &[f64]) -> Result<f64, ThrowError> {
     let (_, mean) = validated(catches)?;
-    let dev: f64 = catches.iter().map(|c| (c - mean).abs()).sum();
-    Ok(100.0 * (1.0 - dev / (catches.len() as f64 * mean)))
+    Ok(cu_of(catches, mean))
 }
 
 fn du_of(sorted: &[f64], mean: f64, fraction: f64) -> (f64, usize) {
     let k = low_count(sorted.len(), fraction);
-    let low = sorted.iter().take(k).sum::<f64>() / k as f64;
+    let low = mean_of(sorted.iter().take(k).copied());
     (100.0 * low / mean, k)
 }
 
@@ -249,9 +269,8 @@ pub fn scheduling_multiplier(du_lq_percent: f64) -> Option<f64> {
 /// All uniformity figures of a set of catches (any consistent unit: mm, mm/h, mL).
 pub fn uniformity(catches: &[f64]) -> Result<UniformityStats, ThrowError> {
     let (sorted, mean) = validated(catches)?;
-    let n = catches.len() as f64;
-    let dev: f64 = catches.iter().map(|c| (c - mean).abs()).sum();
-    let var = catches.iter().map(|c| (c - mean).powi(2)).sum::<f64>() / n;
+    // Variance relative to the mean², so that large catches cannot overflow.
+    let rel_var = mean_of(catches.iter().map(|c| ((c - mean) / mean).powi(2)));
     let (du_lq, k_q) = du_of(&sorted, mean, 0.25);
     let (du_lh, k_h) = du_of(&sorted, mean, 0.5);
     Ok(UniformityStats {
@@ -259,10 +278,10 @@ pub fn uniformity(catches: &[f64]) -> Result<UniformityStats, ThrowError> {
         mean,
         min: sorted.first().copied().unwrap_or(0.0),
         max: sorted.last().copied().unwrap_or(0.0),
-        cu_percent: 100.0 * (1.0 - dev / (n * mean)),
+        cu_percent: cu_of(catches, mean),
         du_lq_percent: du_lq,
         du_lh_percent: du_lh,
-        cv: var.sqrt() / mean,
+        cv: rel_var.sqrt(),
         low_quarter_count: k_q,
         low_half_count: k_h,
         scheduling_multiplier: scheduling_multiplier(du_lq),

@@ -171,11 +171,11 @@ impl RadialProfile {
         }
         let mut rings = Vec::with_capacity(cuts.len().saturating_sub(1));
         let mut rate = 0.0;
-        for (w, d) in cuts.windows(2).zip(&delta) {
+        for ((&inner_m, &outer_m), d) in cuts.iter().zip(cuts.iter().skip(1)).zip(&delta) {
             rate += d;
             rings.push(Ring {
-                inner_m: w[0],
-                outer_m: w[1],
+                inner_m,
+                outer_m,
                 rate_mm_h: rate.max(0.0),
             });
         }
@@ -294,10 +294,14 @@ fn nozzle_rings(t: &NozzleThrow) -> Vec<(f64, f64, f64)> {
     t.spectrum
         .bins
         .iter()
-        .zip(t.edge_distances_m.windows(2))
+        .zip(
+            t.edge_distances_m
+                .iter()
+                .zip(t.edge_distances_m.iter().skip(1)),
+        )
         .filter(|(b, _)| b.volume_fraction > 0.0)
-        .map(|(b, w)| {
-            let (mut a, mut c) = (w[0].min(w[1]), w[0].max(w[1]));
+        .map(|(b, (&w0, &w1))| {
+            let (mut a, mut c) = (w0.min(w1), w0.max(w1));
             if c - a < MIN_RING_WIDTH_M {
                 let mid = 0.5 * (a + c);
                 a = (mid - 0.5 * MIN_RING_WIDTH_M).max(0.0);

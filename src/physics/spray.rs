@@ -261,8 +261,10 @@ impl Spectrum {
         let p_lo = rosin_rammler_cdf(self.smallest_m, self.d50_m, self.spread);
         let p_hi = rosin_rammler_cdf(self.largest_m, self.d50_m, self.spread);
         let target = p_lo + p.clamp(0.0, 1.0) * (p_hi - p_lo);
+        // max/min, not clamp: clamp panics when a bound is NaN.
         rosin_rammler_quantile(target, self.d50_m, self.spread)
-            .clamp(self.smallest_m, self.largest_m)
+            .max(self.smallest_m)
+            .min(self.largest_m)
     }
 }
 

@@ -548,22 +548,24 @@ impl DenseStep {
 
 /// y + h Σ c_i k_i over a fixed number of stages (unrolled by the compiler).
 fn axpy<const N: usize>(y: &State, h: f64, c: [f64; N], k: [&State; N]) -> State {
-    let mut out = *y;
-    for (i, o) in out.iter_mut().enumerate() {
-        let mut sum = 0.0;
-        for j in 0..N {
-            sum += c[j] * k[j][i];
+    let mut sum = [0.0; 6];
+    for (cj, kj) in c.iter().zip(k) {
+        for (s, kv) in sum.iter_mut().zip(kj) {
+            *s += cj * kv;
         }
-        *o += h * sum;
+    }
+    let mut out = *y;
+    for (o, s) in out.iter_mut().zip(sum) {
+        *o += h * s;
     }
     out
 }
 
 fn rms_norm(err: &State, y0: &State, y1: &State, rtol: f64, atol: f64) -> f64 {
     let mut sum = 0.0;
-    for i in 0..6 {
-        let scale = atol + rtol * y0[i].abs().max(y1[i].abs());
-        let e = err[i] / scale;
+    for ((e, a), b) in err.iter().zip(y0).zip(y1) {
+        let scale = atol + rtol * a.abs().max(b.abs());
+        let e = e / scale;
         sum += e * e;
     }
     (sum / 6.0).sqrt()
@@ -589,7 +591,10 @@ fn initial_step(drop: &Drop, y0: &State, f0: &State, opts: &FlightOptions) -> f6
     };
     let y1 = axpy(y0, h0, [1.0], [f0]);
     let f1 = drop.rhs(&y1);
-    let diff: State = std::array::from_fn(|i| f1[i] - f0[i]);
+    let mut diff: State = f1;
+    for (d, b) in diff.iter_mut().zip(f0) {
+        *d -= b;
+    }
     let d2 = norm(&diff) / h0;
     let h1 = if d1 <= 1e-15 && d2 <= 1e-15 {
         (h0 * 1e-3).max(1e-6)
@@ -685,9 +690,15 @@ fn integrate(
         let y_new = axpy(&y, h, [B1, B3, B4, B5, B6], [&k1, &k3, &k4, &k5, &k6]);
         let k7 = drop.rhs(&y_new);
         let ks = [k1, k2, k3, k4, k5, k6, k7];
-        let err: State = std::array::from_fn(|i| {
-            h * ks.iter().zip(E.iter()).map(|(k, e)| e * k[i]).sum::<f64>()
-        });
+        let mut err: State = [0.0; 6];
+        for (k, e) in ks.iter().zip(E.iter()) {
+            for (s, kv) in err.iter_mut().zip(k) {
+                *s += e * kv;
+            }
+        }
+        for s in &mut err {
+            *s *= h;
+        }
         let err_norm = rms_norm(&err, &y, &y_new, opts.rtol, opts.atol);
         if !err_norm.is_finite() {
             h *= MIN_FACTOR;

@@ -116,12 +116,48 @@ impl Checker {
         }
     }
 
+    /// The SI value if it is finite and of a size the model computes with:
+    /// at most [`MAX_MAGNITUDE_SI`], and, unless zero, at least
+    /// [`MIN_MAGNITUDE_SI`] (a bore of 10⁻²⁰⁴ m has an area of zero in
+    /// floating point, a pressure of 10³⁰⁰ Pa overflows the flow equations).
+    fn sized<T: Written>(&mut self, path: &str, v: T) -> Option<f64> {
+        let si = self.finite(path, v)?;
+        if si.abs() > MAX_MAGNITUDE_SI {
+            self.push(
+                path,
+                v,
+                "is too large for the model (more than 1e9 in SI units: m, Pa, m³/s, N·m, kg)",
+            );
+            None
+        } else if si != 0.0 && si.abs() < MIN_MAGNITUDE_SI {
+            self.push(
+                path,
+                v,
+                "is too small for the model (less than 1e-9 in SI units: m, Pa, m³/s, N·m, kg); write 0 where zero is allowed",
+            );
+            None
+        } else {
+            Some(si)
+        }
+    }
+
     fn any<T: Written>(&mut self, path: &str, v: T) -> f64 {
-        self.finite(path, v).unwrap_or(0.0)
+        match self.finite(path, v) {
+            Some(si) if si.abs() > MAX_MAGNITUDE_SI => {
+                self.push(
+                    path,
+                    v,
+                    "is too large for the model (more than 1e9 in SI units)",
+                );
+                0.0
+            }
+            Some(si) => si,
+            None => 0.0,
+        }
     }
 
     fn positive<T: Written>(&mut self, path: &str, v: T) -> f64 {
-        match self.finite(path, v) {
+        match self.sized(path, v) {
             Some(si) if si > 0.0 => si,
             Some(_) => {
                 self.push(path, v, "must be greater than zero");
@@ -132,7 +168,7 @@ impl Checker {
     }
 
     fn non_negative<T: Written>(&mut self, path: &str, v: T) -> f64 {
-        match self.finite(path, v) {
+        match self.sized(path, v) {
             Some(si) if si >= 0.0 => si,
             Some(_) => {
                 self.push(path, v, "must not be negative");
@@ -142,9 +178,14 @@ impl Checker {
         }
     }
 
+    /// A value in [lo, hi]. The ends are widened by 10⁻⁹ of the range's size so
+    /// that a value written at an end in other units (−500 m saved as
+    /// `ft(-1640.41994751)`, 12 significant figures) reads back as valid;
+    /// the value itself is kept as written.
     fn between<T: Written>(&mut self, path: &str, v: T, lo: f64, hi: f64, rule: &str) -> f64 {
+        let slack = 1e-9 * lo.abs().max(hi.abs());
         match self.finite(path, v) {
-            Some(si) if (lo..=hi).contains(&si) => si,
+            Some(si) if (lo - slack..=hi + slack).contains(&si) => si,
             Some(si) => {
                 self.push(path, v, rule);
                 si
@@ -167,6 +208,13 @@ impl Checker {
 }
 
 const DEG: f64 = std::f64::consts::PI / 180.0;
+
+/// Largest size of a value the model computes with, in SI units. Far above
+/// any sprinkler (1 GPa, 1e9 m³/s), far below floating-point overflow.
+const MAX_MAGNITUDE_SI: f64 = 1e9;
+/// Smallest non-zero size of a value the model computes with, in SI units
+/// (1 nm, 1 nPa, 1 nN·m): far below any sprinkler part, far above underflow.
+const MIN_MAGNITUDE_SI: f64 = 1e-9;
 
 impl Scenario {
     /// Checks every value and builds the SI design the physics core takes.
@@ -346,7 +394,8 @@ impl Scenario {
                 len
             });
             let diameter_m = c.positive(&p("nozzle.diameter"), arm.nozzle.diameter);
-            if diameter_m > 0.0 && bore_m > 0.0 && diameter_m > bore_m {
+            // (10⁻⁹ slack: a nozzle as wide as its tube, saved in other units, reads back)
+            if diameter_m > 0.0 && bore_m > 0.0 && diameter_m > bore_m * (1.0 + 1e-9) {
                 c.push(
                     &p("nozzle.diameter"),
                     arm.nozzle.diameter,
@@ -401,11 +450,10 @@ impl Scenario {
             } => {
                 let wall_path = "rotor.inertia.Estimate.tube_wall";
                 let tube_wall_m = c.positive(wall_path, tube_wall);
-                if let Some((i, arm)) = arms
-                    .iter()
-                    .enumerate()
-                    .find(|(_, a)| a.tube.outer_m > 0.0 && tube_wall_m > a.tube.outer_m / 2.0)
-                {
+                if let Some((i, arm)) = arms.iter().enumerate().find(|(_, a)| {
+                    // 10⁻⁹ slack for a value saved at the limit in other units.
+                    a.tube.outer_m > 0.0 && tube_wall_m > a.tube.outer_m / 2.0 * (1.0 + 1e-9)
+                }) {
                     c.push(
                         wall_path,
                         tube_wall,

@@ -438,6 +438,7 @@ impl Scenario {
             .new_line("\n".to_string());
         // Serializing plain structs of numbers, strings and enums with valid
         // identifiers into a String has no failure path in ron.
+        #[allow(clippy::expect_used)] // no input reaches a ron serializer error (see above)
         let body =
             ron::ser::to_string_pretty(self, config).expect("a scenario always serializes to RON");
         format!(
@@ -453,6 +454,7 @@ impl Scenario {
 pub fn builtin_example() -> Scenario {
     // The shipped file is checked by the tests to load; a failure here is a
     // build defect, not bad input.
+    #[allow(clippy::expect_used)] // compiled-in text, loaded by the tests
     load_str(BUILTIN_EXAMPLE, "built-in example (lawn-rotor.ron)")
         .expect("the built-in example loads")
 }

@@ -606,11 +606,11 @@ impl App {
         let mut i = self.selected;
         for _ in 0..by {
             let next = if down {
-                (i + 1..self.rows.len()).find(|&j| matches!(self.rows[j], Row::Field(_)))
+                (i + 1..self.rows.len()).find(|&j| matches!(self.rows.get(j), Some(Row::Field(_))))
             } else {
                 (0..i)
                     .rev()
-                    .find(|&j| matches!(self.rows[j], Row::Field(_)))
+                    .find(|&j| matches!(self.rows.get(j), Some(Row::Field(_))))
             };
             match next {
                 Some(j) => i = j,

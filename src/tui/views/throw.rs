@@ -180,8 +180,8 @@ fn draw_canvas(
             ctx.layer();
             for three in &ink {
                 for (pts, c, _) in three {
-                    for w in pts.windows(2) {
-                        ctx.draw(&CLine::new(w[0].0, w[0].1, w[1].0, w[1].1, *c));
+                    for (a, b) in pts.iter().zip(pts.iter().skip(1)) {
+                        ctx.draw(&CLine::new(a.0, a.1, b.0, b.1, *c));
                     }
                 }
             }
