@@ -542,3 +542,28 @@ fn the_picker_opens_a_scenario_or_adds_it_to_compare() {
     assert!(!a.dirty);
     assert!(a.settle(SETTLE));
 }
+
+#[test]
+fn tiny_and_odd_terminal_sizes_draw_without_panicking() {
+    let mut a = app();
+    select(&mut a, Field::Arm(0, ArmField::Deflection));
+    a.event(&key(KeyCode::Char('c')));
+    assert!(a.settle(SETTLE));
+    for (w, h) in [
+        (1u16, 1u16),
+        (10, 3),
+        (30, 8),
+        (45, 12),
+        (79, 23),
+        (200, 60),
+    ] {
+        for n in 0..5u8 {
+            a.event(&key(KeyCode::Char(char::from(b'1' + n))));
+            let text = screen(&mut a, w, h);
+            assert_eq!(text.lines().count(), h as usize);
+        }
+        a.event(&key(KeyCode::Char('?')));
+        screen(&mut a, w, h);
+        a.event(&key(KeyCode::Esc));
+    }
+}
