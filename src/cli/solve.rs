@@ -454,3 +454,29 @@ pub fn run(path: &Path, o: Output, strict: bool, out: &mut dyn Write) -> Result<
         Outcome::Done
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::physics::balance::Warning;
+    use crate::physics::fixtures::three_arm_rotor;
+    use crate::physics::root::RootError;
+
+    #[test]
+    fn a_failed_root_search_reaches_the_report_with_its_bracket() {
+        let design = three_arm_rotor();
+        let mut report = solve(&design);
+        report.warnings.push(Warning::RootSearch(RootError {
+            lo: 2.0 * std::f64::consts::PI, // 60 rpm
+            hi: 4.0 * std::f64::consts::PI, // 120 rpm
+            reason: "no convergence within the iteration limit",
+        }));
+        let text = solve_text(&design, &report, None, UnitSystem::Metric);
+        assert!(
+            text.contains("between 60.0000 and 120.0000 rpm (6.283185e0 to 1.256637e1 rad/s) failed: no convergence"),
+            "{text}"
+        );
+        let json = serde_json::to_string(&solve_json(&design, &report, None)).unwrap();
+        assert!(json.contains("between 60.0000 and 120.0000 rpm"), "{json}");
+    }
+}

@@ -285,7 +285,17 @@ impl std::fmt::Display for Warning {
                 f,
                 "static friction coefficient is below the kinetic one: check the bearing inputs"
             ),
-            Warning::RootSearch(e) => write!(f, "{e}"),
+            // Every root search here is over rotor speed ω in rad/s.
+            Warning::RootSearch(e) => write!(
+                f,
+                "the speed search between {:.4} and {:.4} rpm ({:.6e} to {:.6e} rad/s) failed: {}; \
+                 the results may miss an equilibrium there",
+                rpm(e.lo),
+                rpm(e.hi),
+                e.lo,
+                e.hi,
+                e.reason
+            ),
             Warning::NoDriveAtRest => write!(
                 f,
                 "the jets give no drive torque at rest (nozzles radial or facing forward)"

@@ -383,7 +383,11 @@ pub fn calibrate(
     let scale = ln_s
         .map_err(|e| ThrowError::InvalidInput {
             field: "calibration".to_string(),
-            detail: format!("did not converge: {e}"),
+            detail: format!(
+                "did not converge on drop-size scales {lo:.4} to {hi:.4} (ln {:.4} to {:.4}): {e}",
+                lo.ln(),
+                hi.ln()
+            ),
         })?
         .exp();
     Ok(Calibration {

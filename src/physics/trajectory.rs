@@ -882,7 +882,7 @@ pub fn terminal_velocity_m_s(
     };
     roots::find_root_brent(0.0, hi, residual, &mut tol).map_err(|e| ThrowError::InvalidInput {
         field: "terminal speed search".to_string(),
-        detail: format!("failed: {e}"),
+        detail: format!("failed on speeds 0 to {hi:.6e} m/s: {e}"),
     })
 }
 
