@@ -15,7 +15,7 @@
 use std::f64::consts::PI;
 
 use super::design::{Design, Inertia};
-use super::hydraulics::{supply_state, Fluids, SupplyState};
+use super::hydraulics::{supply_state_near, Fluids, SupplyState};
 use super::jet::JetExit;
 use super::root::{brent, RootError, Tolerance};
 use super::torque::{
@@ -24,17 +24,17 @@ use super::torque::{
 
 /// Tip speed that bounds the equilibrium search, m/s.
 pub const CAP_TIP_SPEED_M_S: f64 = 150.0;
-/// Points in the geometric scan for sign changes of net torque (a 20 % step).
-pub const SCAN_POINTS: usize = 52;
+/// Points in the geometric scan for sign changes of net torque (a 25 % step).
+pub const SCAN_POINTS: usize = 42;
 /// Lowest scan speed as a fraction of ω_cap (a root below it is still
 /// bracketed between rest and the first grid point).
 const SCAN_FLOOR: f64 = 1e-4;
-/// Points and floor of the runaway scan (up to ten times the tip-speed cap, a 25 % step).
-const RUNAWAY_POINTS: usize = 32;
+/// Points and floor of the runaway scan (up to ten times the tip-speed cap, a 29 % step).
+const RUNAWAY_POINTS: usize = 28;
 const RUNAWAY_FLOOR: f64 = 1e-3;
 
 /// RK4 steps per time scale of the spin-up (see [`spin_up_times`]).
-pub const SPIN_UP_STEPS_PER_TIME_SCALE: f64 = 5.0;
+pub const SPIN_UP_STEPS_PER_TIME_SCALE: f64 = 4.0;
 
 /// rad/s → rpm.
 pub fn rpm(omega_rad_s: f64) -> f64 {
@@ -73,6 +73,9 @@ pub struct SpinModel<'a> {
     pub design: &'a Design,
     /// Water and air at the design's conditions.
     pub fluids: Fluids,
+    /// The last water path solved, the warm start for the next one (the
+    /// scans, Brent and RK4 all ask for nearby speeds in turn).
+    last: std::cell::RefCell<Option<SupplyState>>,
 }
 
 impl<'a> SpinModel<'a> {
@@ -81,6 +84,7 @@ impl<'a> SpinModel<'a> {
         SpinModel {
             design,
             fluids: Fluids::for_design(design),
+            last: std::cell::RefCell::new(None),
         }
     }
 
@@ -90,7 +94,10 @@ impl<'a> SpinModel<'a> {
 
     /// Water path at speed ω, rad/s.
     pub fn state(&self, omega_rad_s: f64) -> SupplyState {
-        supply_state(self.design, &self.fluids, omega_rad_s)
+        let near = self.last.borrow().clone();
+        let state = supply_state_near(self.design, &self.fluids, omega_rad_s, near.as_ref());
+        *self.last.borrow_mut() = Some(state.clone());
+        state
     }
 
     /// Torques while turning at ω (kinetic friction), N·m.

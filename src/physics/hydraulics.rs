@@ -236,6 +236,14 @@ struct NozzleSet<'a> {
     coeffs: Vec<NozzleCoeffs>,
     flows: Vec<NozzleFlow>,
     water: &'a WaterProps,
+    warm: Option<WarmStart>,
+}
+
+/// A nearby solution to start the joint Newton iteration from.
+#[derive(Debug, Clone)]
+struct WarmStart {
+    hub_pressure_pa: f64,
+    flows: Vec<f64>,
 }
 
 impl NozzleSet<'_> {
@@ -266,12 +274,29 @@ impl NozzleSet<'_> {
     ) -> Option<f64> {
         let (rho, mu) = (self.water.density_kg_m3, self.water.viscosity_pa_s);
         let mut p = p_start;
-        for (c, flow) in self.coeffs.iter().zip(self.flows.iter_mut()) {
-            let available = p + c.head_gain_pa;
-            if available <= 0.0 {
-                return None;
+        // A warm start (a nearby state's hub pressure and flows) when one was
+        // given and every nozzle flows there; otherwise the loss-free flows.
+        let warm = self.warm.take().filter(|w| {
+            w.flows.len() == self.coeffs.len()
+                && w.flows.iter().all(|&q| q > 0.0)
+                && self
+                    .coeffs
+                    .iter()
+                    .all(|c| w.hub_pressure_pa + c.head_gain_pa > 0.0)
+        });
+        if let Some(w) = &warm {
+            p = w.hub_pressure_pa;
+            for (flow, &q) in self.flows.iter_mut().zip(&w.flows) {
+                flow.flow_m3_s = q;
             }
-            flow.flow_m3_s = (available / c.a).sqrt();
+        } else {
+            for (c, flow) in self.coeffs.iter().zip(self.flows.iter_mut()) {
+                let available = p + c.head_gain_pa;
+                if available <= 0.0 {
+                    return None;
+                }
+                flow.flow_m3_s = (available / c.a).sqrt();
+            }
         }
         let n = self.coeffs.len();
         let mut residual = vec![0.0; n];
@@ -348,6 +373,17 @@ impl NozzleSet<'_> {
 
 /// Solve the water path of `design` at speed `omega_rad_s`.
 pub fn supply_state(design: &Design, fluids: &Fluids, omega_rad_s: f64) -> SupplyState {
+    supply_state_near(design, fluids, omega_rad_s, None)
+}
+
+/// [`supply_state`], starting the iteration from `near`, a solved state at a
+/// nearby speed (the same answer to the solver's tolerance, in fewer steps).
+pub fn supply_state_near(
+    design: &Design,
+    fluids: &Fluids,
+    omega_rad_s: f64,
+    near: Option<&SupplyState>,
+) -> SupplyState {
     let water = &fluids.water;
     let (rho, mu) = (water.density_kg_m3, water.viscosity_pa_s);
     let coeffs: Vec<NozzleCoeffs> = design
@@ -374,6 +410,10 @@ pub fn supply_state(design: &Design, fluids: &Fluids, omega_rad_s: f64) -> Suppl
         flows: vec![idle; coeffs.len()],
         coeffs,
         water,
+        warm: near.map(|n| WarmStart {
+            hub_pressure_pa: n.hub_pressure_pa,
+            flows: n.nozzles.iter().map(|f| f.flow_m3_s).collect(),
+        }),
     };
     let swivel_area = PI * design.rotor.swivel.inlet_bore_m.powi(2) / 4.0;
     let swivel_k = design.rotor.swivel.k * 0.5 * rho / (swivel_area * swivel_area);
