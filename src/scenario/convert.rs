@@ -122,14 +122,15 @@ impl Checker {
     /// floating point, a pressure of 10³⁰⁰ Pa overflows the flow equations).
     fn sized<T: Written>(&mut self, path: &str, v: T) -> Option<f64> {
         let si = self.finite(path, v)?;
-        if si.abs() > MAX_MAGNITUDE_SI {
+        // 10⁻⁹ slack at both limits, as in `between`, for values saved in other units.
+        if si.abs() > MAX_MAGNITUDE_SI * (1.0 + 1e-9) {
             self.push(
                 path,
                 v,
                 "is too large for the model (more than 1e9 in SI units: m, Pa, m³/s, N·m, kg)",
             );
             None
-        } else if si != 0.0 && si.abs() < MIN_MAGNITUDE_SI {
+        } else if si != 0.0 && si.abs() < MIN_MAGNITUDE_SI * (1.0 - 1e-9) {
             self.push(
                 path,
                 v,
@@ -143,7 +144,7 @@ impl Checker {
 
     fn any<T: Written>(&mut self, path: &str, v: T) -> f64 {
         match self.finite(path, v) {
-            Some(si) if si.abs() > MAX_MAGNITUDE_SI => {
+            Some(si) if si.abs() > MAX_MAGNITUDE_SI * (1.0 + 1e-9) => {
                 self.push(
                     path,
                     v,
