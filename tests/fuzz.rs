@@ -778,7 +778,7 @@ fn run_target<S>(
     strategy: S,
     cases: u32,
     random: bool,
-    check: fn(&S::Value) -> Result<(), String>,
+    check: impl Fn(&S::Value) -> Result<(), String>,
 ) -> u32
 where
     S: Strategy,
@@ -804,10 +804,17 @@ where
         .ok()
         .and_then(|s| s.parse().ok())
         .unwrap_or(60);
+    // Each input is written here before it runs, so that one that aborts the
+    // process (an allocation failure, a stack overflow) is not lost.
+    let last = std::env::temp_dir().join(format!("spinwright-fuzz-last-{name}.txt"));
     let start = Instant::now();
     let mut cases = 0u64;
     while start.elapsed() < Duration::from_secs(seconds) {
-        cases += u64::from(run_target(name, strategy(), 32, true, check));
+        let keep = |v: &S::Value| {
+            let _ = std::fs::write(&last, format!("{v:?}"));
+            check(v)
+        };
+        cases += u64::from(run_target(name, strategy(), 32, true, keep));
     }
     eprintln!(
         "fuzz target {name}: {cases} cases in {:.0} s, no failure",

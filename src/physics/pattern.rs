@@ -53,6 +53,8 @@ use std::f64::consts::PI;
 pub const M_S_TO_MM_H: f64 = 3.6e6;
 /// Narrowest ring a bin is spread over, m.
 pub const MIN_RING_WIDTH_M: f64 = 1e-3;
+/// Most steps [`RadialProfile::sampled`] takes from the head to the wetted radius.
+pub const MAX_PROFILE_SAMPLES: usize = 100_000;
 /// Volume fraction of the spectrum below the "small" drop reported per nozzle.
 pub const SMALL_DROP_FRACTION: f64 = 0.1;
 
@@ -213,12 +215,16 @@ impl RadialProfile {
             .sum()
     }
 
-    /// The profile sampled every `step_m` from the head out to the wetted radius.
+    /// The profile sampled every `step_m` from the head out to the wetted
+    /// radius; for a reach of more than [`MAX_PROFILE_SAMPLES`] steps the step
+    /// is widened so that the list stays that long (a head with a throw of
+    /// 10⁹ m would otherwise ask for billions of points).
     pub fn sampled(&self, step_m: f64) -> Vec<ProfilePoint> {
         let outer = self.outer_radius_m();
-        if !(step_m.is_finite() && step_m > 0.0) || outer <= 0.0 {
+        if !(step_m.is_finite() && step_m > 0.0 && outer.is_finite()) || outer <= 0.0 {
             return Vec::new();
         }
+        let step_m = step_m.max(outer / MAX_PROFILE_SAMPLES as f64);
         let n = (outer / step_m).ceil() as usize;
         (0..=n)
             .map(|i| {
