@@ -10,16 +10,16 @@ use serde::Serialize;
 use super::text::{sig, TextTable};
 use super::{load_design, quantity, CliError, Format, Outcome, Output};
 use crate::physics::balance::{solve, SpinReport};
-use crate::physics::coverage::{head_throw, layout_overlap, wetted_radius_m};
+use crate::physics::coverage::{
+    compare_with_coverage, head_throw, layout_overlap, wetted_radius_m,
+};
 use crate::physics::design::Design;
 use crate::physics::field::{
     check, FieldCheck, FieldReading, FieldTolerances, FlowReading, RotationReading, ThrowReading,
 };
 use crate::physics::layout::OverlapOptions;
 use crate::physics::pattern::PatternOptions;
-use crate::physics::study::{
-    compare, sweep_with, Comparison, ExtraMetric, InputValue, Parameter, SweepAxis,
-};
+use crate::physics::study::{sweep_with, Comparison, InputValue, Parameter, SweepAxis};
 use crate::physics::target::{target, Adjust, Goal, TargetResult};
 use crate::scenario::{save_atomic, Scenario};
 use crate::units::{format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
@@ -753,14 +753,6 @@ pub fn run_sweep(
     Ok(Outcome::Done)
 }
 
-fn cu_du(d: &Design, report: &SpinReport) -> Option<(f64, f64)> {
-    let layout = d.layout?;
-    let opts = PatternOptions::default();
-    let head = head_throw(d, report, &opts, None).ok()?;
-    let r = layout_overlap(d, &head, &layout, &opts, &OverlapOptions::default()).ok()?;
-    Some((r.uniformity.cu_percent, r.uniformity.du_lq_percent))
-}
-
 /// Whether a larger value of a result key is better (None: neither).
 pub fn larger_is_better(key: &str) -> Option<bool> {
     match key {
@@ -789,27 +781,8 @@ pub fn run_compare(paths: &[PathBuf], o: Output, out: &mut dyn Write) -> Result<
         .map(String::as_str)
         .zip(designs.iter())
         .collect();
-    let wetted = |d: &Design, r: &SpinReport| wetted_radius_m(d, r).ok();
-    let cu = |d: &Design, r: &SpinReport| cu_du(d, r).map(|x| x.0);
-    let du = |d: &Design, r: &SpinReport| cu_du(d, r).map(|x| x.1);
-    let extras = [
-        ExtraMetric {
-            key: "wetted_radius_m",
-            unit: "m",
-            eval: &wetted,
-        },
-        ExtraMetric {
-            key: "cu_percent",
-            unit: "%",
-            eval: &cu,
-        },
-        ExtraMetric {
-            key: "du_lq_percent",
-            unit: "%",
-            eval: &du,
-        },
-    ];
-    let c: Comparison = compare(&pairs, &extras).map_err(|e| CliError::Usage(e.to_string()))?;
+    let c: Comparison =
+        compare_with_coverage(&pairs).map_err(|e| CliError::Usage(e.to_string()))?;
     match o.format {
         Format::Json => {
             let j = serde_json::json!({

@@ -14,14 +14,16 @@ use std::thread::JoinHandle;
 use std::time::{Duration, Instant};
 
 use crate::physics::balance::{solve, SpinReport};
-use crate::physics::coverage::{flight_env, head_throw, layout_overlap, wetted_radius_m};
+use crate::physics::coverage::{
+    compare_with_coverage, flight_env, head_throw, layout_overlap, wetted_radius_m,
+};
 use crate::physics::design::Design;
 use crate::physics::field::{check, FieldCheck, FieldReading, FieldTolerances};
 use crate::physics::layout::{LayoutResult, OverlapOptions};
 use crate::physics::pattern::{
     nozzle_paths, NozzlePaths, PatternOptions, ThrowComparison, ThrowReport,
 };
-use crate::physics::study::{compare, Comparison, ExtraMetric};
+use crate::physics::study::Comparison;
 
 /// Points per drawn trajectory.
 pub const PATH_SAMPLES: usize = 48;
@@ -182,45 +184,10 @@ pub fn spray(design: &Design, report: &SpinReport) -> SprayResult {
     }
 }
 
-/// CU and DU_lq of a design on its layout, %.
-fn uniformity(d: &Design, r: &SpinReport) -> Option<(f64, f64)> {
-    let layout = d.layout?;
-    let opts = PatternOptions::default();
-    let head = head_throw(d, r, &opts, None).ok()?;
-    let res = layout_overlap(d, &head, &layout, &opts, &OverlapOptions::default()).ok()?;
-    Some((res.uniformity.cu_percent, res.uniformity.du_lq_percent))
-}
-
 /// The comparison of named designs with throw, CU and DU_lq as extra results.
 pub fn comparison(designs: &[(String, Design)]) -> Result<Comparison, String> {
-    // CU and DU come from one overlap per design; work them out once.
-    let rated: Vec<(&Design, Option<(f64, f64)>)> = designs
-        .iter()
-        .map(|(_, d)| (d, uniformity(d, &solve(d))))
-        .collect();
-    let lookup = |d: &Design| rated.iter().find(|(x, _)| *x == d).and_then(|(_, u)| *u);
-    let wetted = |d: &Design, r: &SpinReport| wetted_radius_m(d, r).ok();
-    let cu = |d: &Design, _: &SpinReport| lookup(d).map(|u| u.0);
-    let du = |d: &Design, _: &SpinReport| lookup(d).map(|u| u.1);
-    let extras = [
-        ExtraMetric {
-            key: "wetted_radius_m",
-            unit: "m",
-            eval: &wetted,
-        },
-        ExtraMetric {
-            key: "cu_percent",
-            unit: "%",
-            eval: &cu,
-        },
-        ExtraMetric {
-            key: "du_lq_percent",
-            unit: "%",
-            eval: &du,
-        },
-    ];
     let pairs: Vec<(&str, &Design)> = designs.iter().map(|(n, d)| (n.as_str(), d)).collect();
-    compare(&pairs, &extras).map_err(|e| e.to_string())
+    compare_with_coverage(&pairs).map_err(|e| e.to_string())
 }
 
 /// The field check of a design, with the throw model when a throw was measured.
