@@ -26,6 +26,17 @@ fn shipped() -> Vec<PathBuf> {
     files
 }
 
+/// Run the binary with `args`, require success and parse its JSON output.
+fn json(args: &[&str]) -> serde_json::Value {
+    let out = bin().args(args).output().unwrap();
+    assert!(
+        out.status.success(),
+        "{args:?}: {}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    serde_json::from_slice(&out.stdout).unwrap()
+}
+
 fn write_temp(dir: &tempfile::TempDir, name: &str, text: &str) -> PathBuf {
     let path = dir.path().join(name);
     std::fs::write(&path, text).expect("temp file");
@@ -283,16 +294,7 @@ fn no_command_without_a_terminal_prints_the_example_report() {
 #[test]
 fn throw_reports_keys_profile_and_calibration() {
     let file = scenario("lawn-rotor.ron");
-    let out = bin()
-        .args(["throw", file.to_str().unwrap(), "--format", "json"])
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let v = json(&["throw", file.to_str().unwrap(), "--format", "json"]);
     // interface.md, "Other commands' JSON", throw.
     for k in [
         "wetted_radius_m",
@@ -315,23 +317,14 @@ fn throw_reports_keys_profile_and_calibration() {
     assert!(wetted < v["throw_at_rest_m"].as_f64().unwrap());
     // Calibrate to a tape-measure reading 10 % shorter: the model then matches it.
     let measured = format!("{:.3}m", 0.9 * wetted);
-    let out = bin()
-        .args([
-            "throw",
-            file.to_str().unwrap(),
-            "--format",
-            "json",
-            "--measured",
-            &measured,
-        ])
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let c: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let c = json(&[
+        "throw",
+        file.to_str().unwrap(),
+        "--format",
+        "json",
+        "--measured",
+        &measured,
+    ]);
     assert!((c["wetted_radius_m"].as_f64().unwrap() / (0.9 * wetted) - 1.0).abs() < 2e-3);
     assert!(c["calibration_scale"].as_f64().unwrap() < 1.0);
     bin()
@@ -344,16 +337,7 @@ fn throw_reports_keys_profile_and_calibration() {
 #[test]
 fn layout_reports_uniformity_and_the_grid() {
     let file = scenario("lawn-rotor.ron");
-    let out = bin()
-        .args(["layout", file.to_str().unwrap(), "--format", "json"])
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let v = json(&["layout", file.to_str().unwrap(), "--format", "json"]);
     for k in [
         "pattern",
         "spacing_m",
@@ -485,25 +469,16 @@ fn check_round_trip_and_findings() {
     let s: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     let rpm = s["operating_point"]["rpm"].as_f64().unwrap();
     // The model's own speed at the design pressure: no deviation, friction as designed.
-    let out = bin()
-        .args([
-            "check",
-            file.to_str().unwrap(),
-            "--pressure",
-            "300kPa",
-            "--rpm",
-            &format!("{rpm}"),
-            "--format",
-            "json",
-        ])
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let c: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let c = json(&[
+        "check",
+        file.to_str().unwrap(),
+        "--pressure",
+        "300kPa",
+        "--rpm",
+        &format!("{rpm}"),
+        "--format",
+        "json",
+    ]);
     for k in [
         "expected_rpm",
         "measured_rpm",
@@ -611,22 +586,13 @@ fn sweep_rows_and_statuses() {
 fn compare_lists_differences_and_deltas() {
     let a = scenario("lawn-rotor.ron");
     let b = scenario("patio-rotor-us.ron");
-    let out = bin()
-        .args([
-            "compare",
-            a.to_str().unwrap(),
-            b.to_str().unwrap(),
-            "--format",
-            "json",
-        ])
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let v = json(&[
+        "compare",
+        a.to_str().unwrap(),
+        b.to_str().unwrap(),
+        "--format",
+        "json",
+    ]);
     assert!(v["inputs"]
         .as_array()
         .unwrap()

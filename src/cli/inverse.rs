@@ -60,11 +60,10 @@ pub fn parameter_value(argument: &str, p: Parameter, text: &str) -> Result<f64, 
                     p.name()
                 ))
             }),
-        Some(D::Angle) if text.parse::<f64>().is_ok() => {
-            let deg: f64 = text.parse().unwrap_or(0.0);
-            Ok(deg.to_radians())
-        }
-        Some(dim) => quantity(argument, dim, text),
+        Some(dim) => match text.parse::<f64>() {
+            Ok(deg) if dim == D::Angle && deg.is_finite() => Ok(deg.to_radians()),
+            _ => quantity(argument, dim, text),
+        },
     }
 }
 

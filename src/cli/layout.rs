@@ -24,7 +24,7 @@ use crate::units::{
 pub const SHADES: [char; 6] = [' ', '·', '░', '▒', '▓', '█'];
 
 /// Options of the `layout` command beyond format and units.
-#[derive(Debug, Clone, Default)]
+#[derive(Debug, Clone)]
 pub struct LayoutArgs {
     /// Override of the scenario's layout.
     pub layout: Option<Layout>,

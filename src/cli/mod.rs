@@ -484,14 +484,7 @@ pub fn open_without_command(file: Option<PathBuf>) -> Result<(), String> {
             .to_design()
             .map_err(|e| format!("{e:#}"))?,
     };
-    let report = crate::physics::balance::solve(&design);
-    let head = crate::physics::coverage::head_throw(
-        &design,
-        &report,
-        &crate::physics::pattern::PatternOptions::default(),
-        None,
-    )
-    .ok();
+    let (report, head) = solve::solve_with_throw(&design);
     print!(
         "{}",
         solve::solve_text(&design, &report, head.as_ref(), UnitSystem::Metric)

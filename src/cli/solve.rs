@@ -393,11 +393,17 @@ pub fn solve_text(
     s
 }
 
+/// Solve a design and work out its throw (None when the head throws no water).
+pub fn solve_with_throw(design: &Design) -> (SpinReport, Option<HeadThrow>) {
+    let report = solve(design);
+    let head = head_throw(design, &report, &PatternOptions::default(), None).ok();
+    (report, head)
+}
+
 /// Run `solve`.
 pub fn run(path: &Path, o: Output, strict: bool, out: &mut dyn Write) -> Result<Outcome, CliError> {
     let design = load_design(path)?;
-    let report = solve(&design);
-    let head = head_throw(&design, &report, &PatternOptions::default(), None).ok();
+    let (report, head) = solve_with_throw(&design);
     let head = head.as_ref();
     match o.format {
         Format::Json => {

@@ -94,6 +94,36 @@ struct NozzleCoeffs {
     tube: Duct,
 }
 
+impl NozzleCoeffs {
+    /// The state of this nozzle when it passes no water.
+    fn idle(&self) -> NozzleFlow {
+        NozzleFlow {
+            flow_m3_s: 0.0,
+            nozzle_pressure_pa: 0.0,
+            arm_loss_pa: 0.0,
+            centrifugal_rise_pa: self.rise_pa,
+            jet_speed_relative_m_s: 0.0,
+            flowing: false,
+            dflow_dpressure: 0.0,
+        }
+    }
+
+    /// The state of this nozzle passing `q` m³/s with `available` Pa ahead of
+    /// it, `arm_loss` Pa lost in the arm and `slope` = d(a·Q² + Δp_arm)/dQ.
+    fn flowing(&self, q: f64, available: f64, arm_loss: f64, slope: f64, rho: f64) -> NozzleFlow {
+        let dp_nozzle = (self.a * q * q).min(available);
+        NozzleFlow {
+            flow_m3_s: q,
+            nozzle_pressure_pa: dp_nozzle,
+            arm_loss_pa: arm_loss.max(0.0),
+            centrifugal_rise_pa: self.rise_pa,
+            jet_speed_relative_m_s: self.cv * (2.0 * dp_nozzle / rho).sqrt(),
+            flowing: true,
+            dflow_dpressure: if slope > 0.0 { 1.0 / slope } else { 0.0 },
+        }
+    }
+}
+
 fn nozzle_coeffs(arm: &Arm, omega: f64, water: &WaterProps) -> NozzleCoeffs {
     let rho = water.density_kg_m3;
     let area = PI * arm.nozzle.diameter_m.powi(2) / 4.0;
@@ -177,15 +207,7 @@ fn solve_nozzle(
     let mu = water.viscosity_pa_s;
     let available = p_hub + c.head_gain_pa;
     if available <= 0.0 {
-        return NozzleFlow {
-            flow_m3_s: 0.0,
-            nozzle_pressure_pa: 0.0,
-            arm_loss_pa: 0.0,
-            centrifugal_rise_pa: c.rise_pa,
-            jet_speed_relative_m_s: 0.0,
-            flowing: false,
-            dflow_dpressure: 0.0,
-        };
+        return c.idle();
     }
     let q_max = (available / c.a).sqrt();
     // Residual and exact slope of a·Q² + Δp_arm(Q) − available.
@@ -209,16 +231,7 @@ fn solve_nozzle(
         1e-14 * available,
     );
     let arm_loss = value + available - c.a * q * q;
-    let dp_nozzle = (c.a * q * q).min(available);
-    NozzleFlow {
-        flow_m3_s: q,
-        nozzle_pressure_pa: dp_nozzle,
-        arm_loss_pa: arm_loss.max(0.0),
-        centrifugal_rise_pa: c.rise_pa,
-        jet_speed_relative_m_s: c.cv * (2.0 * dp_nozzle / rho).sqrt(),
-        flowing: true,
-        dflow_dpressure: if slope > 0.0 { 1.0 / slope } else { 0.0 },
-    }
+    c.flowing(q, available, arm_loss, slope, rho)
 }
 
 /// The hose of a Line supply as a duct.
@@ -341,16 +354,7 @@ impl NozzleSet<'_> {
                     if available <= 0.0 {
                         return None;
                     }
-                    let dp_nozzle = (c.a * q * q).min(available);
-                    *flow = NozzleFlow {
-                        flow_m3_s: q,
-                        nozzle_pressure_pa: dp_nozzle,
-                        arm_loss_pa: arm,
-                        centrifugal_rise_pa: c.rise_pa,
-                        jet_speed_relative_m_s: c.cv * (2.0 * dp_nozzle / rho).sqrt(),
-                        flowing: true,
-                        dflow_dpressure: 1.0 / (2.0 * c.a * q + arm_slope),
-                    };
+                    *flow = c.flowing(q, available, arm, 2.0 * c.a * q + arm_slope, rho);
                 }
                 return Some(p);
             }
@@ -358,16 +362,10 @@ impl NozzleSet<'_> {
         None
     }
 
-    /// The solved nozzles, with the centrifugal rise filled in for idle ones.
+    /// The solved nozzles (every exit path of the solvers leaves each one
+    /// freshly solved, idle ones included).
     fn finish(&mut self) -> Vec<NozzleFlow> {
         std::mem::take(&mut self.flows)
-            .into_iter()
-            .zip(&self.coeffs)
-            .map(|(mut f, c)| {
-                f.centrifugal_rise_pa = c.rise_pa;
-                f
-            })
-            .collect()
     }
 }
 
@@ -397,17 +395,8 @@ pub fn supply_state_near(
         .iter()
         .map(|c| -c.head_gain_pa)
         .fold(f64::INFINITY, f64::min);
-    let idle = NozzleFlow {
-        flow_m3_s: 0.0,
-        nozzle_pressure_pa: 0.0,
-        arm_loss_pa: 0.0,
-        centrifugal_rise_pa: 0.0,
-        jet_speed_relative_m_s: 0.0,
-        flowing: false,
-        dflow_dpressure: 0.0,
-    };
     let mut set = NozzleSet {
-        flows: vec![idle; coeffs.len()],
+        flows: coeffs.iter().map(NozzleCoeffs::idle).collect(),
         coeffs,
         water,
         warm: near.map(|n| WarmStart {
