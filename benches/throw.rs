@@ -19,6 +19,7 @@ fn jets() -> Vec<JetExit> {
         flow_m3_s: 1.0e-4,
         nozzle_diameter_m: 2.4e-3,
         nozzle_pressure_pa: 2.8e5,
+        omega_rad_s: 0.0,
     };
     (0..3)
         .map(|i| base.turned(2.0 * PI * i as f64 / 3.0))

@@ -302,16 +302,23 @@ fn throw_reports_keys_profile_and_calibration() {
         "nozzles",
         "profile",
         "peak_depth_per_turn_mm",
-        "calibration_scale",
+        "breakup_coefficient",
+        "farthest_drop_m",
+        "wetting_threshold_mm_h",
+        "peak_height_m",
     ] {
         assert!(v.get(k).is_some(), "throw.{k}");
     }
+    // No wind in this scenario: no wind radii.
+    assert!(v.get("wetted_radius_downwind_m").is_none());
+    assert!(v["wetted_radius_m"].as_f64().unwrap() <= v["farthest_drop_m"].as_f64().unwrap());
     let n = &v["nozzles"][0];
     for k in ["largest", "median", "small"] {
         assert!(n["throw_m"][k].as_f64().unwrap() > 0.0, "throw_m.{k}");
     }
     assert!(n["d50_m"].as_f64().unwrap() < n["largest_drop_m"].as_f64().unwrap());
-    assert_eq!(v["calibration_scale"], 1.0);
+    // Valencia, Zheng & Marshall (2022): the published default.
+    assert_eq!(v["breakup_coefficient"], 11.0);
     let wetted = v["wetted_radius_m"].as_f64().unwrap();
     // Rotation costs throw (model.md M7).
     assert!(wetted < v["throw_at_rest_m"].as_f64().unwrap());
@@ -326,7 +333,18 @@ fn throw_reports_keys_profile_and_calibration() {
         &measured,
     ]);
     assert!((c["wetted_radius_m"].as_f64().unwrap() / (0.9 * wetted) - 1.0).abs() < 2e-3);
-    assert!(c["calibration_scale"].as_f64().unwrap() < 1.0);
+    let cal = &c["calibration"];
+    assert!(cal["breakup_coefficient"].as_f64().unwrap() < 11.0);
+    assert_eq!(cal["uncalibrated_breakup_coefficient"], 11.0);
+    // A reading no plausible jet explains is refused, naming the range.
+    bin()
+        .args(["throw", file.to_str().unwrap(), "--measured", "25m"])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("plausible jet"))
+        .stderr(predicate::str::contains(
+            "breakup coefficients from 2 to 22",
+        ));
     bin()
         .args(["throw", file.to_str().unwrap(), "--measured", "7.5 parsecs"])
         .assert()
@@ -639,4 +657,93 @@ fn a_crash_writes_a_report_and_says_where() {
     assert_eq!(reports.len(), 1);
     let text = std::fs::read_to_string(reports[0].path()).unwrap();
     assert!(text.contains("deliberate panic"));
+}
+
+#[test]
+fn throw_in_wind_gives_the_radius_upwind_downwind_and_across() {
+    // field-arm.ron has 2 m/s of wind.
+    let file = scenario("field-arm.ron");
+    let v = json(&["throw", file.to_str().unwrap(), "--format", "json"]);
+    let calm = v["wetted_radius_m"].as_f64().unwrap();
+    let up = v["wetted_radius_upwind_m"].as_f64().unwrap();
+    let down = v["wetted_radius_downwind_m"].as_f64().unwrap();
+    let across = v["wetted_radius_crosswind_m"].as_f64().unwrap();
+    assert!(down > calm && calm > up, "{up} {calm} {down}");
+    assert!(across > 0.0);
+    let text = bin()
+        .args(["throw", file.to_str().unwrap(), "--units", "us"])
+        .output()
+        .unwrap();
+    let text = String::from_utf8(text.stdout).unwrap();
+    assert!(
+        text.contains("upwind") && text.contains("downwind") && text.contains(" ft"),
+        "{text}"
+    );
+    let csv = bin()
+        .args(["throw", file.to_str().unwrap(), "--format", "csv"])
+        .output()
+        .unwrap();
+    let csv = String::from_utf8(csv.stdout).unwrap();
+    let header = csv.lines().next().unwrap();
+    assert!(header.contains("wetted radius downwind m"), "{header}");
+}
+
+#[test]
+fn layouts_whose_heads_do_not_meet_are_results() {
+    let file = scenario("lawn-rotor.ron");
+    for spacing in ["30m", "500m"] {
+        let v = json(&[
+            "layout",
+            file.to_str().unwrap(),
+            "--spacing",
+            spacing,
+            "--format",
+            "json",
+        ]);
+        assert_eq!(v["heads_meet"], false, "{spacing}");
+        assert!(v["dry_percent"].as_f64().unwrap() > 0.0);
+        assert!(
+            v["cu_percent"].as_f64().unwrap() >= 0.0,
+            "no negative CU at {spacing}"
+        );
+        let (mean, expected) = (
+            v["mean_rate_mm_h"].as_f64().unwrap(),
+            v["expected_rate_mm_h"].as_f64().unwrap(),
+        );
+        assert!(
+            (mean / expected - 1.0).abs() < 0.03,
+            "{spacing}: {mean} vs {expected}"
+        );
+        bin()
+            .args(["layout", file.to_str().unwrap(), "--spacing", spacing])
+            .assert()
+            .success()
+            .stdout(predicate::str::contains("heads do not meet"));
+    }
+    // Head to head: the heads meet.
+    let v = json(&["layout", file.to_str().unwrap(), "--format", "json"]);
+    assert_eq!(v["heads_meet"], true);
+}
+
+#[test]
+fn a_flow_the_nozzles_cannot_pass_is_refused_in_plain_words() {
+    let dir = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(scenario("garden-spinner.ron")).unwrap();
+    let start = text.find("supply:").unwrap();
+    let end = start + text[start..].find('\n').unwrap();
+    let odd = format!(
+        "{}supply: Flow(L_min(150)),{}",
+        &text[..start],
+        &text[end..]
+    );
+    let path = write_temp(&dir, "too-much.ron", &odd);
+    bin()
+        .args(["throw", path.to_str().unwrap()])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("supply.Flow"))
+        .stderr(predicate::str::contains(
+            "cannot pass through these nozzles",
+        ))
+        .stderr(predicate::str::contains("2000 kPa"));
 }

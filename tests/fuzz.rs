@@ -631,9 +631,18 @@ fn build_design(u: &[f64]) -> Design {
         0 => Supply::Pressure {
             inlet_pa: d.log(10e3, 1e6),
         },
-        1 => Supply::Flow {
-            total_m3_s: d.log(1e-6, 5e-3),
-        },
+        1 => {
+            // A flow the nozzles can pass (model.md M4 refuses more).
+            let total_m3_s = d.log(1e-6, 5e-3);
+            let open: f64 = arms
+                .iter()
+                .map(|a| a.nozzle.cd * std::f64::consts::PI * a.nozzle.diameter_m.powi(2) / 4.0)
+                .sum();
+            let most = open * (2.0 * 1.9e6 / 1000.0f64).sqrt();
+            Supply::Flow {
+                total_m3_s: total_m3_s.min(most),
+            }
+        }
         _ => Supply::Line(Line {
             source_pa: d.log(10e3, 1e6),
             length_m: d.log(0.1, 100.0),
@@ -695,6 +704,7 @@ fn build_design(u: &[f64]) -> Design {
             d50_m: d.chance(0.7).then_some(d50),
             spread: d.chance(0.5).then(|| d.lin(1.0, 6.0)),
             largest_m: d.chance(0.5).then(|| d50 * d.lin(1.1, 4.0)),
+            breakup: d.chance(0.5).then(|| d.lin(2.0, 22.0)),
         }
     };
     let layout = match d.pick(4) {

@@ -10,6 +10,24 @@ use crate::support::assert_designs_close;
 
 use std::f64::consts::{FRAC_PI_2, PI};
 
+/// A fixed flow the nozzles can pass (a larger one is refused on reading,
+/// model.md M4): scaled down to at most 1.9 MPa across the nozzles.
+fn feasible(supply: Supply, arms: &[Arm], water_c: f64) -> Supply {
+    use spinwright::physics::hydraulics::least_nozzle_pressure_for_flow_pa;
+    let rho = spinwright::physics::fluid::WaterProps::at(water_c).density_kg_m3;
+    match supply {
+        Supply::Flow { total_m3_s } => {
+            match least_nozzle_pressure_for_flow_pa(arms, total_m3_s, rho) {
+                Some(need) if need > 1.9e6 => Supply::Flow {
+                    total_m3_s: total_m3_s * (1.9e6 / need).sqrt(),
+                },
+                _ => supply,
+            }
+        }
+        other => other,
+    }
+}
+
 fn supply() -> impl Strategy<Value = Supply> {
     prop_oneof![
         (1e3..2e6f64).prop_map(|inlet_pa| Supply::Pressure { inlet_pa }),
@@ -180,11 +198,13 @@ fn design() -> impl Strategy<Value = Design> {
         proptest::option::of(0.0002..0.003f64),
         proptest::option::of(1.0..5.0f64),
         proptest::option::of(1.1..4.0f64),
+        proptest::option::of(2.0..22.0f64),
     )
-        .prop_map(|(d50_m, spread, largest_ratio)| SpraySpec {
+        .prop_map(|(d50_m, spread, largest_ratio, breakup)| SpraySpec {
             d50_m,
             spread,
             largest_m: largest_ratio.map(|r| d50_m.unwrap_or(0.001) * r),
+            breakup,
         });
     let layout = proptest::option::of(prop_oneof![
         (1.0..50.0f64).prop_map(|spacing_m| Layout::Square { spacing_m }),
@@ -204,6 +224,7 @@ fn design() -> impl Strategy<Value = Design> {
     )
         .prop_map(
             |(name, (water, air, altitude), supply, rotor, friction, spray, layout, (ws, wf))| {
+                let supply = feasible(supply, &rotor.arms, water);
                 Design {
                     name,
                     water_temperature_c: water,

@@ -12,6 +12,8 @@ mod reference_pipe;
 mod scenario_files;
 mod scenario_roundtrip;
 mod support;
+mod throw_published;
 mod throw_rotation;
+mod throw_wind;
 mod trajectory_reference;
 mod uniformity_reference;

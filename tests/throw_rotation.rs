@@ -24,6 +24,7 @@ fn jet(w: f64, alpha: f64, delta: f64, radius: f64, height: f64, omega: f64) -> 
         flow_m3_s: 1e-4,
         nozzle_diameter_m: 2.4e-3,
         nozzle_pressure_pa: 2.8e5,
+        omega_rad_s: omega,
     }
 }
 

@@ -49,6 +49,9 @@ struct LayoutJson {
     scheduling_multiplier: Option<f64>,
     spacing_percent_of_diameter: f64,
     wetted_radius_m: f64,
+    dry_percent: f64,
+    heads_meet: bool,
+    cu_clamped: bool,
     grid: GridJson,
     intake_warning: Option<String>,
     measured: Option<MeasuredJson>,
@@ -204,6 +207,22 @@ pub fn layout_text(
         rate(u.min),
         rate(u.max)
     ));
+    if !result.heads_meet {
+        s.push_str(&format!(
+            "  heads do not meet: {:.1} % of the ground stays dry (below {}); \
+             the spacing is {:.0} % of the wetted diameter\n",
+            result.dry_percent,
+            rate(crate::physics::pattern::wetting_threshold_mm_h(
+                result.expected_rate_mm_h * result.spacing_m * result.rows_m / M_S_TO_MM_H
+            )),
+            result.spacing_percent_of_diameter
+        ));
+    }
+    if u.cu_clamped {
+        s.push_str(
+            "  CU shown as 0 %: Christiansen's formula gives less than zero for catches this uneven\n",
+        );
+    }
     if u.cu_percent < 80.0 {
         s.push_str("  warning: CU below 80 %, the usual lower limit (extension practice): close the spacing\n");
     }
@@ -270,6 +289,9 @@ pub fn run(
                 scheduling_multiplier: u.scheduling_multiplier,
                 spacing_percent_of_diameter: result.spacing_percent_of_diameter,
                 wetted_radius_m: head.throw.wetted_radius_m,
+                dry_percent: result.dry_percent,
+                heads_meet: result.heads_meet,
+                cu_clamped: u.cu_clamped,
                 grid: GridJson {
                     dx_m: result.grid.dx_m,
                     dy_m: result.grid.dy_m,

@@ -62,7 +62,7 @@ pub enum Command {
     Throw {
         /// The scenario file.
         file: PathBuf,
-        /// A measured wetted radius (e.g. 7.5m, 25ft): calibrate the drop sizes to it.
+        /// A measured wetted radius (e.g. 7.5m, 25ft): calibrate the jet breakup to it.
         #[arg(long)]
         measured: Option<String>,
         /// Format and units of the report.

@@ -368,7 +368,7 @@ pub fn solve_text(
     s.push_str(&t.render(2));
     if let Some(w) = wetted {
         s.push_str(&format!(
-            "  wetted radius {} (largest drop, still air)\n",
+            "  wetted radius {} (still air, to the testing standards' wetted edge)\n",
             q(D::Length, w)
         ));
     }

@@ -8,9 +8,9 @@ use serde::Serialize;
 use super::text::TextTable;
 use super::{load_design, CliError, Format, Outcome, Output};
 use crate::physics::balance::solve;
-use crate::physics::coverage::{head_throw, HeadThrow};
+use crate::physics::coverage::{head_throw, head_wind_radii, HeadThrow};
 use crate::physics::design::Design;
-use crate::physics::pattern::PatternOptions;
+use crate::physics::pattern::{PatternOptions, WindRadii};
 use crate::units::{
     format_number, format_quantity, to_display, unit_label, Dimension as D, UnitSystem,
 };
@@ -21,12 +21,31 @@ const PROFILE_STEP_M: f64 = 0.25;
 #[derive(Debug, Serialize)]
 struct ThrowJson {
     wetted_radius_m: f64,
+    wetting_threshold_mm_h: f64,
+    farthest_drop_m: f64,
+    peak_height_m: f64,
     throw_at_rest_m: f64,
     running: bool,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    wetted_radius_upwind_m: Option<f64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    wetted_radius_downwind_m: Option<f64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    wetted_radius_crosswind_m: Option<f64>,
     nozzles: Vec<Option<NozzleThrowJson>>,
     profile: Vec<ProfileJson>,
     peak_depth_per_turn_mm: Option<f64>,
-    calibration_scale: f64,
+    breakup_coefficient: f64,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    calibration: Option<CalibrationJson>,
+}
+
+#[derive(Debug, Serialize)]
+struct CalibrationJson {
+    measured_wetted_radius_m: f64,
+    breakup_coefficient: f64,
+    uncalibrated_breakup_coefficient: f64,
+    uncalibrated_wetted_radius_m: f64,
 }
 
 #[derive(Debug, Serialize)]
@@ -34,6 +53,8 @@ struct NozzleThrowJson {
     throw_m: DropThrowsJson,
     d50_m: f64,
     largest_drop_m: f64,
+    intact_length_m: f64,
+    peak_height_m: f64,
 }
 
 #[derive(Debug, Serialize)]
@@ -49,11 +70,17 @@ struct ProfileJson {
     rate_mm_h: f64,
 }
 
-fn throw_json(head: &HeadThrow) -> ThrowJson {
+fn throw_json(head: &HeadThrow, wind: Option<WindRadii>) -> ThrowJson {
     ThrowJson {
         wetted_radius_m: head.throw.wetted_radius_m,
+        wetting_threshold_mm_h: head.throw.wetting_threshold_mm_h,
+        farthest_drop_m: head.throw.farthest_drop_m,
+        peak_height_m: head.throw.peak_height_m,
         throw_at_rest_m: head.rest_vs_running.at_rest_m,
         running: head.spraying.running,
+        wetted_radius_upwind_m: wind.map(|w| w.upwind_m),
+        wetted_radius_downwind_m: wind.map(|w| w.downwind_m),
+        wetted_radius_crosswind_m: wind.map(|w| w.crosswind_m),
         nozzles: head
             .throw
             .nozzles
@@ -67,6 +94,8 @@ fn throw_json(head: &HeadThrow) -> ThrowJson {
                     },
                     d50_m: t.spectrum.d50_m,
                     largest_drop_m: t.spectrum.largest_m,
+                    intact_length_m: t.breakup.intact_length_m,
+                    peak_height_m: t.peak_height_m,
                 })
             })
             .collect(),
@@ -81,12 +110,23 @@ fn throw_json(head: &HeadThrow) -> ThrowJson {
             })
             .collect(),
         peak_depth_per_turn_mm: head.throw.peak_depth_per_turn_mm,
-        calibration_scale: head.throw.calibration_scale,
+        breakup_coefficient: head.throw.breakup_coefficient,
+        calibration: head.calibration.map(|c| CalibrationJson {
+            measured_wetted_radius_m: c.measured_radius_m,
+            breakup_coefficient: c.breakup_coefficient,
+            uncalibrated_breakup_coefficient: c.uncalibrated_breakup_coefficient,
+            uncalibrated_wetted_radius_m: c.uncalibrated_radius_m,
+        }),
     }
 }
 
-/// The text report of a head's throw.
-pub fn throw_text(design: &Design, head: &HeadThrow, units: UnitSystem) -> String {
+/// The text report of a head's throw; `wind` the radii in the design's wind.
+pub fn throw_text(
+    design: &Design,
+    head: &HeadThrow,
+    wind: Option<WindRadii>,
+    units: UnitSystem,
+) -> String {
     let q = |dim, v| format_quantity(dim, v, units);
     let mut s = String::new();
     s.push_str(&format!(
@@ -99,6 +139,25 @@ pub fn throw_text(design: &Design, head: &HeadThrow, units: UnitSystem) -> Strin
             " (not turning: jets at rest)"
         }
     ));
+    s.push_str(&format!(
+        "  (farthest point still getting {}; the farthest drop lands at {}; \
+         paths peak {} above ground)\n",
+        q(
+            D::ApplicationRate,
+            head.throw.wetting_threshold_mm_h / crate::physics::pattern::M_S_TO_MM_H
+        ),
+        q(D::Length, head.throw.farthest_drop_m),
+        q(D::Length, head.throw.peak_height_m),
+    ));
+    if let Some(w) = wind {
+        s.push_str(&format!(
+            "  in the site's wind of {}: upwind {}, downwind {}, across {}\n",
+            q(D::Speed, design.wind.speed_m_s),
+            q(D::Length, w.upwind_m),
+            q(D::Length, w.downwind_m),
+            q(D::Length, w.crosswind_m),
+        ));
+    }
     let cmp = head.rest_vs_running;
     s.push_str(&format!(
         "  held still it would throw {}; turning costs {:.1} % of the throw\n",
@@ -107,9 +166,11 @@ pub fn throw_text(design: &Design, head: &HeadThrow, units: UnitSystem) -> Strin
     ));
     if let Some(c) = head.calibration {
         s.push_str(&format!(
-            "  calibrated to a measured {}: drop sizes × {:.3} (model gave {} before)\n",
+            "  calibrated to a measured {}: jet breakup coefficient {:.2} (was {:.2}; \
+             the model gave {} before)\n",
             q(D::Length, c.measured_radius_m),
-            c.scale,
+            c.breakup_coefficient,
+            c.uncalibrated_breakup_coefficient,
             q(D::Length, c.uncalibrated_radius_m)
         ));
     }
@@ -126,6 +187,7 @@ pub fn throw_text(design: &Design, head: &HeadThrow, units: UnitSystem) -> Strin
     let small = unit_label(D::SmallLength, units);
     let mut t = TextTable::new(vec![
         "nozzle".to_string(),
+        format!("intact jet {len}"),
         format!("largest drop {small}"),
         format!("throw {len}"),
         format!("median drop {small}"),
@@ -138,6 +200,7 @@ pub fn throw_text(design: &Design, head: &HeadThrow, units: UnitSystem) -> Strin
         match n {
             Some(n) => t.row([
                 format!("{}", k + 1),
+                show(D::Length, n.breakup.intact_length_m),
                 show(D::SmallLength, n.spectrum.largest_m),
                 show(D::Length, n.throw_largest_m),
                 show(D::SmallLength, n.median_drop_m),
@@ -175,25 +238,38 @@ pub fn run(
 ) -> Result<Outcome, CliError> {
     let design = load_design(path)?;
     let report = solve(&design);
-    let head = head_throw(&design, &report, &PatternOptions::default(), measured_m)
+    let opts = PatternOptions::default();
+    let head = head_throw(&design, &report, &opts, measured_m)
+        .map_err(|e| CliError::Usage(format!("{}: {e}", path.display())))?;
+    let wind = head_wind_radii(&design, &head, &opts)
         .map_err(|e| CliError::Usage(format!("{}: {e}", path.display())))?;
     let units: UnitSystem = o.units.into();
     match o.format {
         Format::Json => {
-            serde_json::to_writer_pretty(&mut *out, &throw_json(&head))
+            serde_json::to_writer_pretty(&mut *out, &throw_json(&head, wind))
                 .map_err(std::io::Error::from)?;
             writeln!(out)?;
         }
-        Format::Text => write!(out, "{}", throw_text(&design, &head, units))?,
+        Format::Text => write!(out, "{}", throw_text(&design, &head, wind, units))?,
         Format::Csv => {
+            let len = unit_label(D::Length, units);
             let mut w = csv::Writer::from_writer(out);
-            w.write_record([
-                format!("distance {}", unit_label(D::Length, units)),
+            let mut header = vec![
+                format!("distance {len}"),
                 format!("rate {}", unit_label(D::ApplicationRate, units)),
-            ])?;
+                format!("wetted radius {len}"),
+            ];
+            if wind.is_some() {
+                header.extend(
+                    ["upwind", "downwind", "crosswind"]
+                        .map(|side| format!("wetted radius {side} {len}")),
+                );
+            }
+            w.write_record(&header)?;
+            let shown = |v: f64| format!("{}", to_display(D::Length, v, units));
             for p in head.throw.profile.sampled(PROFILE_STEP_M) {
-                w.write_record([
-                    format!("{}", to_display(D::Length, p.r_m, units)),
+                let mut row = vec![
+                    shown(p.r_m),
                     format!(
                         "{}",
                         to_display(
@@ -202,7 +278,12 @@ pub fn run(
                             units
                         )
                     ),
-                ])?;
+                    shown(head.throw.wetted_radius_m),
+                ];
+                if let Some(r) = wind {
+                    row.extend([r.upwind_m, r.downwind_m, r.crosswind_m].map(shown));
+                }
+                w.write_record(&row)?;
             }
             w.flush()?;
         }

@@ -7,12 +7,12 @@
 //! throw is that of the jets at rest too, and the report says so.
 
 use super::balance::{solve, SpinModel, SpinReport, SpinStatus};
-use super::design::{Design, Layout};
+use super::design::{Design, Layout, SpraySpec};
 use super::jet::JetExit;
 use super::layout::{overlap, HeadPattern, LayoutResult, OverlapOptions};
 use super::pattern::{
-    radial_pattern, throw_at_rest_and_running, windy_pattern, PatternGrid, PatternOptions,
-    ThrowComparison, ThrowReport,
+    radial_pattern, throw_at_rest_and_running, wetted_radii_in_wind, wetted_radius, windy_pattern,
+    PatternGrid, PatternOptions, ThrowComparison, ThrowReport, WindRadii,
 };
 use super::spray::{calibrate, Calibration};
 use super::study::{compare, CompareError, Comparison, ExtraMetric};
@@ -71,10 +71,12 @@ pub struct HeadThrow {
     pub rest_vs_running: ThrowComparison,
     /// The calibration, when a measured wetted radius was given.
     pub calibration: Option<Calibration>,
+    /// The spray settings used (the design's, with a calibration applied).
+    pub spray: SpraySpec,
 }
 
 /// Throw of the design at its spin state. `measured_wetted_radius_m`
-/// calibrates the drop sizes so the model's wetted radius matches it.
+/// calibrates the jet breakup coefficient so the model's wetted radius matches it.
 pub fn head_throw(
     design: &Design,
     report: &SpinReport,
@@ -93,53 +95,59 @@ pub fn head_throw(
         )?),
         None => None,
     };
-    let opts = PatternOptions {
-        scale: calibration.map_or(opts.scale, |c| c.scale),
-        ..*opts
-    };
-    let throw = radial_pattern(
-        &spraying.jets,
-        &design.spray,
-        &env,
-        spraying.omega_rad_s,
-        &opts,
-    )?;
-    let rest_vs_running = throw_at_rest_and_running(
-        &jets_at_rest(design),
-        &spraying.jets,
-        &design.spray,
-        &env,
-        &opts,
-    )?;
+    let spray = calibration.map_or(design.spray, |c| c.applied_to(&design.spray));
+    let throw = radial_pattern(&spraying.jets, &spray, &env, spraying.omega_rad_s, opts)?;
+    let rest_vs_running =
+        throw_at_rest_and_running(&jets_at_rest(design), &spraying.jets, &spray, &env, opts)?;
     Ok(HeadThrow {
         spraying,
         throw,
         rest_vs_running,
         calibration,
+        spray,
     })
 }
 
-/// The wetted radius alone, m (still air, largest drop), for the inverse
-/// uses (field check, design targets).
+/// The wetted radius alone, m (still air, the standard's threshold), for the
+/// inverse uses (field check, design targets, sweeps).
 pub fn wetted_radius_m(design: &Design, report: &SpinReport) -> Result<f64, ThrowError> {
     let spraying = spraying_state(design, report);
     let opts = PatternOptions::default();
-    super::spray::wetted_radius_m(
+    wetted_radius(
         &spraying.jets,
         &design.spray,
         &flight_env(design),
         &opts.flight,
-        opts.scale,
     )
+    .map(|w| w.standard_m)
 }
 
-/// The 2-D pattern of the head in the design's wind.
+/// The 2-D pattern of the head in the design's wind, with the spray settings
+/// of `head` (a calibration included).
 pub fn head_pattern_in_wind(
     design: &Design,
-    spraying: &SprayingState,
+    head: &HeadThrow,
     opts: &PatternOptions,
 ) -> Result<PatternGrid, ThrowError> {
-    windy_pattern(&spraying.jets, &design.spray, &flight_env(design), opts)
+    windy_pattern(&head.spraying.jets, &head.spray, &flight_env(design), opts)
+}
+
+/// The head's wetted radius upwind, downwind and across the design's wind
+/// (`None` in calm air), read at the same threshold as the still-air radius.
+pub fn head_wind_radii(
+    design: &Design,
+    head: &HeadThrow,
+    opts: &PatternOptions,
+) -> Result<Option<WindRadii>, ThrowError> {
+    if design.wind.speed_m_s.is_nan() || design.wind.speed_m_s <= 0.0 {
+        return Ok(None);
+    }
+    let grid = head_pattern_in_wind(design, head, opts)?;
+    Ok(wetted_radii_in_wind(
+        &grid,
+        &design.wind.velocity(),
+        head.throw.wetting_threshold_mm_h,
+    ))
 }
 
 /// Overlap of the head in `layout`: with no wind the radial profile, in wind
@@ -158,11 +166,7 @@ pub fn layout_overlap(
         ..*overlap_opts
     };
     if design.wind.speed_m_s > 0.0 {
-        let pattern_opts = PatternOptions {
-            scale: head.throw.calibration_scale,
-            ..*pattern_opts
-        };
-        let grid = head_pattern_in_wind(design, &head.spraying, &pattern_opts)?;
+        let grid = head_pattern_in_wind(design, head, pattern_opts)?;
         overlap(layout, &grid as &dyn HeadPattern, &opts)
     } else {
         overlap(layout, &head.throw.profile as &dyn HeadPattern, &opts)

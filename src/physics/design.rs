@@ -251,6 +251,9 @@ pub struct SpraySpec {
     pub spread: Option<f64>,
     /// Largest drop diameter, m.
     pub largest_m: Option<f64>,
+    /// Jet breakup coefficient C_b of the nozzles (intact length over
+    /// d·√(ρ_w/ρ_air)); `None`: the published default 11 (model.md M7).
+    pub breakup: Option<f64>,
 }
 
 /// A head layout for overlap and uniformity (model.md M9).

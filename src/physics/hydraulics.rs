@@ -184,6 +184,29 @@ fn bracketed_newton(
     (x, fx, dfx)
 }
 
+/// Highest pressure across a nozzle the model is meant for, Pa (2 MPa, about
+/// 290 psi: well above any irrigation sprinkler's, common practice; the drop
+/// and jet relations were fitted at 150–450 kPa).
+pub const MAX_NOZZLE_PRESSURE_PA: f64 = 2.0e6;
+
+/// Pressure across the nozzles that a fixed total flow `total_m3_s` needs at
+/// the least, Pa: Δp = ρ/2 · (Q / Σ C_d A)², every nozzle at the same
+/// pressure with the rotor held still and no losses (arm losses and the
+/// centrifugal rise of a turning rotor only add to it). `None` when the
+/// nozzles have no open area.
+pub fn least_nozzle_pressure_for_flow_pa(
+    arms: &[Arm],
+    total_m3_s: f64,
+    water_density_kg_m3: f64,
+) -> Option<f64> {
+    let open: f64 = arms
+        .iter()
+        .map(|a| a.nozzle.cd * PI * a.nozzle.diameter_m.powi(2) / 4.0)
+        .sum();
+    (open > 0.0 && open.is_finite())
+        .then(|| 0.5 * water_density_kg_m3 * (total_m3_s / open).powi(2))
+}
+
 /// Flow through one nozzle for a given hub gauge pressure and speed.
 ///
 /// Solves a·Q² + Δp_arm(Q) = p_hub + ½ρω²R² − ρgΔz for Q ≥ 0.

@@ -21,9 +21,17 @@ pub struct JetExit {
     pub nozzle_diameter_m: f64,
     /// Pressure drop across the nozzle (the head that makes the jet), Pa.
     pub nozzle_pressure_pa: f64,
+    /// Rotor speed when the jet left, rad/s (positive in the drive sense, about +z;
+    /// 0 for a head held still). It sets how much the turning arm stretches the stream.
+    pub omega_rad_s: f64,
 }
 
 impl JetExit {
+    /// Jet velocity relative to the turning arm, m/s: W = V − ω ẑ × r.
+    pub fn relative_velocity_m_s(&self) -> Vector3<f64> {
+        self.velocity_m_s - (Vector3::z() * self.omega_rad_s).cross(&self.position_m)
+    }
+
     /// The same jet after the rotor has turned by `angle_rad` about +z.
     pub fn turned(&self, angle_rad: f64) -> JetExit {
         let rot = Rotation3::from_axis_angle(&Vector3::z_axis(), angle_rad);

@@ -32,7 +32,7 @@
 //! and the soak time up to whole minutes (at least one).
 
 use super::design::Layout;
-use super::pattern::{PatternGrid, RadialProfile, M_S_TO_MM_H};
+use super::pattern::{wetting_threshold_mm_h, PatternGrid, RadialProfile, M_S_TO_MM_H};
 use super::trajectory::{invalid, require_positive, ThrowError};
 use std::f64::consts::PI;
 
@@ -173,8 +173,11 @@ pub struct UniformityStats {
     pub min: f64,
     /// Largest catch.
     pub max: f64,
-    /// Christiansen coefficient of uniformity, %.
+    /// Christiansen coefficient of uniformity, %; never below 0 (see `cu_clamped`).
     pub cu_percent: f64,
+    /// True when Christiansen's formula gave less than 0 (catches so uneven
+    /// that the mean deviation exceeds the mean) and 0 is reported instead.
+    pub cu_clamped: bool,
     /// Low-quarter distribution uniformity, %.
     pub du_lq_percent: f64,
     /// Low-half distribution uniformity, %.
@@ -237,10 +240,11 @@ fn cu_of(catches: &[f64], mean: f64) -> f64 {
     100.0 * (1.0 - mean_dev / mean)
 }
 
-/// Christiansen coefficient of uniformity, %.
+/// Christiansen coefficient of uniformity, %, clamped at 0 (the formula
+/// goes negative when the mean deviation exceeds the mean).
 pub fn christiansen_cu_percent(catches: &[f64]) -> Result<f64, ThrowError> {
     let (_, mean) = validated(catches)?;
-    Ok(cu_of(catches, mean))
+    Ok(cu_of(catches, mean).max(0.0))
 }
 
 fn du_of(sorted: &[f64], mean: f64, fraction: f64) -> (f64, usize) {
@@ -273,12 +277,14 @@ pub fn uniformity(catches: &[f64]) -> Result<UniformityStats, ThrowError> {
     let rel_var = mean_of(catches.iter().map(|c| ((c - mean) / mean).powi(2)));
     let (du_lq, k_q) = du_of(&sorted, mean, 0.25);
     let (du_lh, k_h) = du_of(&sorted, mean, 0.5);
+    let cu = cu_of(catches, mean);
     Ok(UniformityStats {
         count: catches.len(),
         mean,
         min: sorted.first().copied().unwrap_or(0.0),
         max: sorted.last().copied().unwrap_or(0.0),
-        cu_percent: cu_of(catches, mean),
+        cu_percent: cu.max(0.0),
+        cu_clamped: cu < 0.0,
         du_lq_percent: du_lq,
         du_lh_percent: du_lh,
         cv: rel_var.sqrt(),
@@ -319,6 +325,32 @@ pub struct CatchGrid {
     pub rate_mm_h: Vec<Vec<f64>>,
 }
 
+/// The uniformity of catches that are all zero: nothing is wetted, every
+/// figure is 0 (a result, not an error, for a layout whose heads miss every
+/// catch point).
+fn all_dry(count: usize) -> UniformityStats {
+    UniformityStats {
+        count,
+        mean: 0.0,
+        min: 0.0,
+        max: 0.0,
+        cu_percent: 0.0,
+        cu_clamped: false,
+        du_lq_percent: 0.0,
+        du_lh_percent: 0.0,
+        cv: 0.0,
+        low_quarter_count: low_count(count, 0.25),
+        low_half_count: low_count(count, 0.5),
+        scheduling_multiplier: None,
+    }
+}
+
+/// Catch cells across the spacing are refined until a cell is at most this
+/// fraction of the head's reach, so heads far apart are still sampled well.
+const CELLS_PER_REACH: f64 = 8.0;
+/// Most catch cells along a row after refinement.
+const MAX_REFINED_CELLS_ALONG_ROW: usize = 600;
+
 /// Overlap of a layout: mean rate, uniformity, the catch grid.
 #[derive(Debug, Clone, PartialEq)]
 pub struct LayoutResult {
@@ -338,6 +370,10 @@ pub struct LayoutResult {
     pub spacing_percent_of_diameter: f64,
     /// Row spacing L as % of the wetted diameter.
     pub rows_percent_of_diameter: f64,
+    /// Share of the catch points that stay dry (below the wetting threshold), %.
+    pub dry_percent: f64,
+    /// True when every catch point gets water: the heads' patterns meet.
+    pub heads_meet: bool,
     /// The catch grid.
     pub grid: CatchGrid,
 }
@@ -388,7 +424,13 @@ pub fn overlap(
         Some(r) => require_positive("wetted radius (m)", r)?,
         None => reach,
     };
-    let nx = opts.cells_along_row;
+    // Heads far apart: refine so a cell stays small against the head's reach.
+    let wanted = (CELLS_PER_REACH * s.max(l) / reach).ceil();
+    let nx = if wanted > opts.cells_along_row as f64 {
+        (wanted.min(MAX_REFINED_CELLS_ALONG_ROW as f64) as usize).max(opts.cells_along_row)
+    } else {
+        opts.cells_along_row
+    };
     let ny = ((nx as f64 * l / s).round() as usize).clamp(1, 4000);
     let (dx, dy) = (s / nx as f64, l / ny as f64);
     let shift = match layout {
@@ -427,7 +469,14 @@ pub fn overlap(
         }
         rows.push(row);
     }
-    let stats = uniformity(&all)?;
+    let stats = if all.iter().all(|&c| c == 0.0) {
+        all_dry(all.len())
+    } else {
+        uniformity(&all)?
+    };
+    let threshold = wetting_threshold_mm_h(head.flow_m3_s());
+    let dry = all.iter().filter(|&&c| c < threshold).count();
+    let dry_percent = 100.0 * dry as f64 / all.len().max(1) as f64;
     let expected = head.flow_m3_s() / (s * l) * M_S_TO_MM_H;
     Ok(LayoutResult {
         layout: *layout,
@@ -438,6 +487,8 @@ pub fn overlap(
         uniformity: stats,
         spacing_percent_of_diameter: 100.0 * s / (2.0 * wetted),
         rows_percent_of_diameter: 100.0 * l / (2.0 * wetted),
+        dry_percent,
+        heads_meet: dry == 0,
         grid: CatchGrid {
             dx_m: dx,
             dy_m: dy,

@@ -8,6 +8,7 @@
 //! - [`torque`]: drive torque by moment of momentum, resisting torque (M2, M5).
 //! - [`balance`]: equilibria, start check, runaway, spin-up, power (M6).
 //! - [`jet`]: a jet at the nozzle exit, the hand-over to the throw (M7).
+//! - [`breakup`]: the intact jet, its breakup point and the sheltered spray (M7).
 //! - [`trajectory`]: drop flight with drag and wind, drop drag law, terminal speed (M7).
 //! - [`spray`]: drop-size spectrum per nozzle, calibration to a measured throw (M8).
 //! - [`pattern`]: radial application profile and the 2-D pattern in wind (M8).
@@ -19,6 +20,7 @@
 //! - [`study`]: named parameters, one- and two-axis sweeps, design comparison.
 
 pub mod balance;
+pub mod breakup;
 pub mod coverage;
 pub mod design;
 pub mod field;

@@ -25,24 +25,32 @@
 //! Rotation speed enters only through the jets: the caller passes jets built
 //! at the operating point (and at ω = 0 for the throw at rest).
 //!
-//! **Known limitation: uncalibrated throw runs short.** Every drop is flown as a
-//! drop from the nozzle exit, with the deformed-drop drag of
-//! [`crate::physics::trajectory`]. A real jet travels some distance as an intact
-//! stream before it breaks up, with far less drag per unit mass. For a
-//! non-rotating 5 mm jet at 300 kPa, 25° and 0.6 m high, the default spectrum
-//! throws 12.6 m, against 16.7–17.4 m from the rules of thumb in the project's
-//! references (common practice); a rigid-sphere law happens to give 16.8 m for
-//! the same drop, because its too-low drag stands in for the intact jet. Above
-//! about 4 mm the modelled throw hardly grows with drop size, so calibrating by
-//! drop-size scale ([`crate::physics::spray::calibrate`]) needs large factors.
-//! Relative results (rpm against throw, spacing, wind) are more trustworthy
-//! than the absolute radius; calibrate against a measured wetted radius.
+//! **Throw.** Every drop is flown as part of the jet: the intact stream to its
+//! breakup point, then the sheltered spray ([`crate::physics::breakup`]). A
+//! nozzle's jet breaks up once, so the breakup point is found once per jet and
+//! every drop size is flown on from it.
+//!
+//! **Wetted radius** as the sprinkler testing standards define it (ASAE S398.1,
+//! ISO 15886-3; thresholds from memory): the farthest distance from the head at
+//! which the application rate is still [`WETTING_THRESHOLD_MM_H`] (0.26 mm/h),
+//! or [`SMALL_HEAD_WETTING_THRESHOLD_MM_H`] (0.13 mm/h) for a head of 0.075 L/s
+//! or less. The farthest landing of any drop is reported beside it
+//! (`farthest_drop_m`). Landing distance grows with drop size in still air, so
+//! [`wetted_radius`] flies bin edges from the largest drop inwards and stops
+//! for each nozzle at the first ring that alone reaches the threshold: the
+//! rings not flown lie inside it and cannot move the answer. (Drops of 5–6 mm,
+//! whose drag factor is held, may land slightly out of order; the quick radius
+//! then differs from the full profile's by under 0.2 %, as a test checks.)
+//!
+//! In wind, the wetted radius upwind, downwind and across the wind is read off
+//! the 2-D pattern along those three rays ([`wetted_radii_in_wind`]).
 
+use super::breakup::{break_up, Breakup};
 use super::design::SpraySpec;
 use super::jet::JetExit;
-use super::spray::{flows, no_flow, Spectrum, DEFAULT_BINS};
+use super::spray::{breakup_coefficient, flight_for, flows, no_flow, Spectrum, DEFAULT_BINS};
 use super::trajectory::{
-    flight_path, fly_jet, invalid, require_positive, FlightEnv, FlightOptions, FlightPath,
+    flight_path, fly_from_breakup, invalid, require_positive, FlightEnv, FlightOptions, FlightPath,
     ThrowError,
 };
 use nalgebra::Vector2;
@@ -57,14 +65,27 @@ pub const MIN_RING_WIDTH_M: f64 = 1e-3;
 pub const MAX_PROFILE_SAMPLES: usize = 100_000;
 /// Volume fraction of the spectrum below the "small" drop reported per nozzle.
 pub const SMALL_DROP_FRACTION: f64 = 0.1;
+/// Application rate that still counts as wetted, mm/h (ASAE S398.1, ISO 15886-3; from memory).
+pub const WETTING_THRESHOLD_MM_H: f64 = 0.26;
+/// The same for a head of at most [`SMALL_HEAD_FLOW_M3_S`], mm/h (same sources).
+pub const SMALL_HEAD_WETTING_THRESHOLD_MM_H: f64 = 0.13;
+/// Head flow at or below which the smaller threshold applies, m³/s (0.075 L/s).
+pub const SMALL_HEAD_FLOW_M3_S: f64 = 0.075e-3;
+
+/// The wetting threshold for a head of total flow `flow_m3_s`, mm/h.
+pub fn wetting_threshold_mm_h(flow_m3_s: f64) -> f64 {
+    if flow_m3_s <= SMALL_HEAD_FLOW_M3_S {
+        SMALL_HEAD_WETTING_THRESHOLD_MM_H
+    } else {
+        WETTING_THRESHOLD_MM_H
+    }
+}
 
 /// Settings for throw and pattern calculations.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct PatternOptions {
     /// Drop-size bins per nozzle.
     pub bins: usize,
-    /// Calibration factor on drop sizes (1 when not calibrated).
-    pub scale: f64,
     /// Trajectory accuracy.
     pub flight: FlightOptions,
     /// Azimuths per turn for the 2-D pattern.
@@ -81,7 +102,6 @@ impl Default for PatternOptions {
     fn default() -> Self {
         PatternOptions {
             bins: DEFAULT_BINS,
-            scale: 1.0,
             flight: FlightOptions::pattern(),
             azimuths: 72,
             cell_m: None,
@@ -96,8 +116,12 @@ pub struct NozzleThrow {
     pub spectrum: Spectrum,
     /// Landing distance from the spin axis of each bin-edge drop, m (small to large).
     pub edge_distances_m: Vec<f64>,
-    /// Landing distance of the largest drop, m.
+    /// Landing distance of the largest drop (the farthest drop), m.
     pub throw_largest_m: f64,
+    /// Where the jet broke up.
+    pub breakup: Breakup,
+    /// Highest point of the largest drop's path above ground, m.
+    pub peak_height_m: f64,
     /// Landing distance of the volume-median (d50 of the spectrum) drop, m.
     pub throw_median_m: f64,
     /// Landing distance of the "small" drop, m.
@@ -198,6 +222,16 @@ impl RadialProfile {
         self.rings.last().map_or(0.0, |r| r.outer_m)
     }
 
+    /// Farthest distance at which the rate is at least `threshold_mm_h`, m
+    /// (0 when it is nowhere reached).
+    pub fn wetted_radius_m(&self, threshold_mm_h: f64) -> f64 {
+        self.rings
+            .iter()
+            .rev()
+            .find(|r| r.rate_mm_h >= threshold_mm_h)
+            .map_or(0.0, |r| r.outer_m)
+    }
+
     /// The ring with the highest rate, if any water lands.
     pub fn peak(&self) -> Option<Ring> {
         self.rings
@@ -245,12 +279,18 @@ pub struct ThrowReport {
     pub nozzles: Vec<Option<NozzleThrow>>,
     /// The radial application profile.
     pub profile: RadialProfile,
-    /// Wetted radius: the farthest landing of any nozzle's largest drop, m.
+    /// Wetted radius by the testing standards' threshold, m (module docs).
     pub wetted_radius_m: f64,
+    /// The rate threshold the wetted radius was read at, mm/h.
+    pub wetting_threshold_mm_h: f64,
+    /// Farthest landing of any drop, m.
+    pub farthest_drop_m: f64,
+    /// Highest point of any nozzle's drop paths above ground, m.
+    pub peak_height_m: f64,
     /// Depth applied in one turn at the peak ring, mm (`None` when ω = 0).
     pub peak_depth_per_turn_mm: Option<f64>,
-    /// Calibration factor on drop sizes that was used.
-    pub calibration_scale: f64,
+    /// Jet breakup coefficient used (the scenario's, a calibration's, or the default).
+    pub breakup_coefficient: f64,
     /// Total flow of the head, m³/s.
     pub total_flow_m3_s: f64,
 }
@@ -259,7 +299,6 @@ fn validate_options(opts: &PatternOptions) -> Result<(), ThrowError> {
     if opts.bins == 0 {
         return Err(invalid("drop-size bins", 0.0, "at least 1"));
     }
-    require_positive("drop-size scale factor", opts.scale)?;
     Ok(())
 }
 
@@ -272,21 +311,26 @@ pub fn nozzle_throw(
 ) -> Result<NozzleThrow, ThrowError> {
     validate_options(opts)?;
     let still = env.still();
-    let spectrum = Spectrum::for_jet(spec, jet, &still, opts.bins, opts.scale)?;
-    let edges = spectrum.edges_m();
-    let edge_distances_m = edges
+    let flight = flight_for(spec, &opts.flight);
+    let spectrum = Spectrum::for_jet(spec, jet, &still, opts.bins)?;
+    let breakup = break_up(jet, &still, &flight.jet)?;
+    let fly = |d: f64| fly_from_breakup(&breakup, d, &still, &flight);
+    let edge_distances_m = spectrum
+        .edges_m()
         .iter()
-        .map(|&d| fly_jet(jet, d, &still, &opts.flight).map(|l| l.distance_m))
+        .map(|&d| fly(d).map(|l| l.distance_m))
         .collect::<Result<Vec<f64>, ThrowError>>()?;
     let median_drop_m = spectrum.diameter_at_fraction(0.5);
     let small_drop_m = spectrum.diameter_at_fraction(SMALL_DROP_FRACTION);
-    let throw_median_m = fly_jet(jet, median_drop_m, &still, &opts.flight)?.distance_m;
-    let throw_small_m = fly_jet(jet, small_drop_m, &still, &opts.flight)?.distance_m;
-    let throw_largest_m = edge_distances_m.last().copied().unwrap_or(0.0);
+    let throw_median_m = fly(median_drop_m)?.distance_m;
+    let throw_small_m = fly(small_drop_m)?.distance_m;
+    let largest = fly(spectrum.largest_m)?;
     Ok(NozzleThrow {
         spectrum,
         edge_distances_m,
-        throw_largest_m,
+        throw_largest_m: largest.distance_m,
+        breakup,
+        peak_height_m: largest.apex_m,
         throw_median_m,
         throw_small_m,
         median_drop_m,
@@ -305,17 +349,89 @@ fn nozzle_rings(t: &NozzleThrow) -> Vec<(f64, f64, f64)> {
                 .iter()
                 .zip(t.edge_distances_m.iter().skip(1)),
         )
-        .filter(|(b, _)| b.volume_fraction > 0.0)
-        .map(|(b, (&w0, &w1))| {
-            let (mut a, mut c) = (w0.min(w1), w0.max(w1));
-            if c - a < MIN_RING_WIDTH_M {
-                let mid = 0.5 * (a + c);
-                a = (mid - 0.5 * MIN_RING_WIDTH_M).max(0.0);
-                c = a + MIN_RING_WIDTH_M;
-            }
-            (a, c, t.flow_m3_s * b.volume_fraction)
-        })
+        .filter_map(|(b, (&w0, &w1))| ring_of(w0, w1, t.flow_m3_s * b.volume_fraction))
         .collect()
+}
+
+/// The ring between two landing distances that carries `flow_m3_s`, widened
+/// to [`MIN_RING_WIDTH_M`] about its centre if narrower; `None` for no flow.
+fn ring_of(w0: f64, w1: f64, flow_m3_s: f64) -> Option<(f64, f64, f64)> {
+    if flow_m3_s <= 0.0 {
+        return None;
+    }
+    let (mut a, mut c) = (w0.min(w1), w0.max(w1));
+    if c - a < MIN_RING_WIDTH_M {
+        let mid = 0.5 * (a + c);
+        a = (mid - 0.5 * MIN_RING_WIDTH_M).max(0.0);
+        c = a + MIN_RING_WIDTH_M;
+    }
+    Some((a, c, flow_m3_s))
+}
+
+/// Rate of a ring piece, mm/h.
+fn piece_rate_mm_h(&(a, c, q): &(f64, f64, f64)) -> f64 {
+    q / (PI * (c * c - a * a)) * M_S_TO_MM_H
+}
+
+/// A head's wetted radius in still air.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct WettedRadius {
+    /// By the testing standards' threshold, m (module docs).
+    pub standard_m: f64,
+    /// Farthest landing of any drop, m.
+    pub farthest_drop_m: f64,
+    /// The threshold used, mm/h.
+    pub threshold_mm_h: f64,
+}
+
+/// Wetted radius of a head in still air, flying only the outer drops that
+/// decide it (module docs). The same number as [`radial_pattern`] gives.
+pub fn wetted_radius(
+    jets: &[JetExit],
+    spec: &SpraySpec,
+    env: &FlightEnv,
+    flight: &FlightOptions,
+) -> Result<WettedRadius, ThrowError> {
+    let still = env.still();
+    let flight = flight_for(spec, flight);
+    let flowing: Vec<&JetExit> = jets.iter().filter(|j| flows(j)).collect();
+    if flowing.is_empty() {
+        return Err(no_flow());
+    }
+    let total: f64 = flowing.iter().map(|j| j.flow_m3_s).sum();
+    let threshold = wetting_threshold_mm_h(total);
+    let mut pieces = Vec::new();
+    let mut farthest = 0.0f64;
+    for jet in flowing {
+        let spectrum = Spectrum::for_jet(spec, jet, &still, DEFAULT_BINS)?;
+        let breakup = break_up(jet, &still, &flight.jet)?;
+        let edges = spectrum.edges_m();
+        let mut outer = None;
+        for (bin, d_inner) in spectrum.bins.iter().zip(edges.iter()).rev() {
+            let w_outer = match outer {
+                Some(w) => w,
+                None => {
+                    let w = fly_from_breakup(&breakup, bin.upper_m, &still, &flight)?.distance_m;
+                    farthest = farthest.max(w);
+                    w
+                }
+            };
+            let w_inner = fly_from_breakup(&breakup, *d_inner, &still, &flight)?.distance_m;
+            outer = Some(w_inner);
+            if let Some(piece) = ring_of(w_inner, w_outer, jet.flow_m3_s * bin.volume_fraction) {
+                pieces.push(piece);
+                if piece_rate_mm_h(&piece) >= threshold {
+                    break;
+                }
+            }
+        }
+    }
+    let profile = RadialProfile::from_pieces(&pieces, total);
+    Ok(WettedRadius {
+        standard_m: profile.wetted_radius_m(threshold),
+        farthest_drop_m: farthest,
+        threshold_mm_h: threshold,
+    })
 }
 
 /// Throw, wetted radius and radial application profile of one head in still air.
@@ -350,20 +466,25 @@ pub fn radial_pattern(
     let total: f64 = flowing.iter().map(|t| t.flow_m3_s).sum();
     let pieces: Vec<(f64, f64, f64)> = flowing.iter().flat_map(|t| nozzle_rings(t)).collect();
     let profile = RadialProfile::from_pieces(&pieces, total);
-    let wetted = flowing
+    let threshold = wetting_threshold_mm_h(total);
+    let farthest = flowing
         .iter()
         .map(|t| t.throw_largest_m)
         .fold(0.0, f64::max);
+    let peak_height = flowing.iter().map(|t| t.peak_height_m).fold(0.0, f64::max);
     let peak_depth_per_turn_mm = match profile.peak() {
         Some(peak) if omega_rad_s > 0.0 => Some(peak.rate_mm_h / 3600.0 * (2.0 * PI / omega_rad_s)),
         _ => None,
     };
     Ok(ThrowReport {
         nozzles,
+        wetted_radius_m: profile.wetted_radius_m(threshold),
         profile,
-        wetted_radius_m: wetted,
+        wetting_threshold_mm_h: threshold,
+        farthest_drop_m: farthest,
+        peak_height_m: peak_height,
         peak_depth_per_turn_mm,
-        calibration_scale: opts.scale,
+        breakup_coefficient: breakup_coefficient(spec),
         total_flow_m3_s: total,
     })
 }
@@ -389,8 +510,8 @@ pub fn throw_at_rest_and_running(
     opts: &PatternOptions,
 ) -> Result<ThrowComparison, ThrowError> {
     validate_options(opts)?;
-    let rest = super::spray::wetted_radius_m(at_rest, spec, env, &opts.flight, opts.scale)?;
-    let run = super::spray::wetted_radius_m(running, spec, env, &opts.flight, opts.scale)?;
+    let rest = wetted_radius(at_rest, spec, env, &opts.flight)?.standard_m;
+    let run = wetted_radius(running, spec, env, &opts.flight)?.standard_m;
     Ok(ThrowComparison {
         at_rest_m: rest,
         running_m: run,
@@ -417,11 +538,13 @@ pub struct NozzlePaths {
 pub fn nozzle_paths(
     jet: &JetExit,
     throw: &NozzleThrow,
+    spec: &SpraySpec,
     env: &FlightEnv,
     flight: &FlightOptions,
     samples: usize,
 ) -> Result<NozzlePaths, ThrowError> {
     let still = env.still();
+    let flight = &flight_for(spec, flight);
     Ok(NozzlePaths {
         largest: flight_path(jet, throw.spectrum.largest_m, &still, flight, samples)?,
         median: flight_path(jet, throw.median_drop_m, &still, flight, samples)?,
@@ -550,6 +673,7 @@ fn cross(a: Vector2<f64>, b: Vector2<f64>) -> f64 {
 fn same_jet_turned(rep: &JetExit, jet: &JetExit, step: f64, n_az: usize) -> Option<usize> {
     if rep.nozzle_diameter_m != jet.nozzle_diameter_m
         || rep.nozzle_pressure_pa != jet.nozzle_pressure_pa
+        || rep.omega_rad_s != jet.omega_rad_s
     {
         return None;
     }
@@ -598,9 +722,10 @@ pub fn windy_pattern(
     }
     let spectra = flowing
         .iter()
-        .map(|jet| Spectrum::for_jet(spec, jet, &env.still(), opts.bins, opts.scale))
+        .map(|jet| Spectrum::for_jet(spec, jet, &env.still(), opts.bins))
         .collect::<Result<Vec<_>, ThrowError>>()?;
     let n_az = opts.azimuths;
+    let flight = flight_for(spec, &opts.flight);
     // Jets that are copies of an earlier one turned by a whole number of
     // azimuth steps (identical arms evenly spaced) sweep the same flights:
     // fly each such family once. source[j] = (representative, azimuth shift).
@@ -631,11 +756,12 @@ pub fn windy_pattern(
                 _ => return Ok(Vec::new()),
             };
             let turned = jet.turned(2.0 * PI * k as f64 / n_az as f64);
+            let breakup = break_up(&turned, env, &flight.jet)?;
             spectrum
                 .edges_m()
                 .iter()
                 .map(|&d| {
-                    fly_jet(&turned, d, env, &opts.flight)
+                    fly_from_breakup(&breakup, d, env, &flight)
                         .map(|l| Vector2::new(l.point_m.x, l.point_m.y))
                 })
                 .collect::<Result<Vec<Vector2<f64>>, ThrowError>>()
@@ -742,6 +868,55 @@ pub fn windy_pattern(
     Ok(grid)
 }
 
+/// Wetted radius of a head in wind along three rays from the head.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct WindRadii {
+    /// Into the wind (towards where it comes from), m.
+    pub upwind_m: f64,
+    /// With the wind, m.
+    pub downwind_m: f64,
+    /// Across the wind, the mean of both sides, m.
+    pub crosswind_m: f64,
+}
+
+/// Farthest distance along the unit direction (`ux`, `uy`) from the head at
+/// which `grid`'s rate is at least `threshold_mm_h`, m.
+fn wetted_along(grid: &PatternGrid, ux: f64, uy: f64, threshold_mm_h: f64) -> f64 {
+    let step = 0.25 * grid.dx_m.min(grid.dy_m);
+    let reach = grid.reach_m();
+    if !(step > 0.0 && reach.is_finite()) {
+        return 0.0;
+    }
+    let n = ((reach / step).ceil() as usize).min(1_000_000);
+    (0..=n)
+        .rev()
+        .map(|i| i as f64 * step)
+        .find(|&r| grid.rate_mm_h_at(r * ux, r * uy) >= threshold_mm_h)
+        .unwrap_or(0.0)
+}
+
+/// Wetted radius upwind, downwind and across the wind of a 2-D pattern, read
+/// at `threshold_mm_h`; `None` in calm air (`wind_m_s` of zero length).
+pub fn wetted_radii_in_wind(
+    grid: &PatternGrid,
+    wind_m_s: &nalgebra::Vector3<f64>,
+    threshold_mm_h: f64,
+) -> Option<WindRadii> {
+    let w = wind_m_s.xy();
+    let speed = w.norm();
+    if !(speed.is_finite() && speed > 0.0) {
+        return None;
+    }
+    let (ux, uy) = (w.x / speed, w.y / speed);
+    let left = wetted_along(grid, -uy, ux, threshold_mm_h);
+    let right = wetted_along(grid, uy, -ux, threshold_mm_h);
+    Some(WindRadii {
+        upwind_m: wetted_along(grid, -ux, -uy, threshold_mm_h),
+        downwind_m: wetted_along(grid, ux, uy, threshold_mm_h),
+        crosswind_m: 0.5 * (left + right),
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -767,6 +942,7 @@ mod tests {
             flow_m3_s: 1.2e-4,
             nozzle_diameter_m: 2.4e-3,
             nozzle_pressure_pa: 2.8e5,
+            omega_rad_s: 0.0,
         };
         vec![a, a.turned(PI)]
     }

@@ -13,37 +13,47 @@
 //! fraction between its edges; the fractions sum to 1 (the last one is set to
 //! 1 minus the others).
 //!
-//! # Defaults (assumptions, not published values)
+//! # Defaults
 //!
-//! - **d50**: a *critical-Weber estimate* made for this project. The jet leaves
-//!   at W = √(2 Δp/ρ_w); a drop moving through air at W breaks up above a
-//!   Weber number ρ_air W² d/σ ≈ 12 (the classic bag-breakup threshold, from
-//!   memory), so aerodynamic break-up caps drops near d_c = 12 σ/(ρ_air W²).
-//!   The nozzle size enters through the jet: d50 = (d_n · d_c²)^(1/3), i.e.
-//!   d50/d_n = (12/We_n)^(2/3) with We_n = ρ_air W² d_n/σ and σ = 0.0728 N/m.
-//!   It gives 1.6 mm for a 2.4 mm nozzle at 280 kPa and falls with pressure as
-//!   p^(−2/3), in the range measured for small impact sprinklers. The published
-//!   relation of Kincaid, Solomon & Oliphant (1996, Trans. ASAE 39(3)) in nozzle
-//!   size and pressure is *not* used: its coefficients were not available to us.
-//!   Where drop sizes matter, give d50 or calibrate against a measured wetted
-//!   radius ([`calibrate`]).
+//! - **largest** drop: the nozzle diameter, never above 9 mm. Drops as large as
+//!   the jet are what a breaking jet can make at most; the largest drops measured
+//!   from sprinklers are about 9 mm, at low pressure (Montero, Tarjuelo &
+//!   Carrión 2003, *Irrig. Sci.* 22:47–56). The largest drop sets the wetted radius.
+//! - **d50**: the volume median diameter follows the jet's Weber number
+//!   We = ρ_air W² d_n / σ (W the jet speed from the nozzle pressure, σ =
+//!   0.0728 N/m),
+//!
+//!   ```text
+//!   d50 = 1.45 · d_n · We^(−1/3),   at most 0.8 × the largest drop,
+//!   ```
+//!
+//!   so d50 rises with nozzle size (as d_n^(2/3)) and falls with pressure (as
+//!   p^(−1/3)), the trends measured for impact sprinklers by Kincaid, Solomon &
+//!   Oliphant (1996, *Trans. ASAE* 39(3):839–845) and Li, Kawano & Yu (1994,
+//!   *Trans. ASAE* 37(6)). Their fitted coefficients were not available to us,
+//!   so the form is the project's (a Weber scaling) and the constant 1.45 is set
+//!   so that a 5 mm nozzle at 300 kPa gives d50 = 0.4 d_n = 2.0 mm, inside the
+//!   1–3 mm those papers report for medium nozzles (from memory). It shapes the
+//!   radial profile, not the wetted radius; where drop sizes matter, give d50.
 //! - **spread** n = 2.5, inside the 2–3.5 reported for impact sprinklers by
 //!   Li, Kawano & Yu (1994) (from memory).
-//! - **largest** drop: the 99.9 % volume quantile of the untruncated spectrum,
-//!   d50 · (ln 1000 / ln 2)^(1/n) (2.51 · d50 at n = 2.5).
 //! - **smallest** drop: max(d50/10, 0.1 mm), never above half the largest. Finer
 //!   mist (a fraction of a percent of the volume) is folded into the first bin.
 //!
 //! # Calibration
 //!
 //! Given a measured wetted radius (in calm air), [`calibrate`] finds by Brent's
-//! method the factor s on all drop sizes (d50, smallest and largest) for which
-//! the largest drop of the farthest-throwing nozzle lands at that radius.
+//! method the jet breakup coefficient ([`crate::physics::breakup`]) for which the
+//! model's wetted radius equals it. Drop sizes stay physical. A reading outside
+//! what the plausible coefficients [`PLAUSIBLE_BREAKUP`] can explain is refused,
+//! with the range of radii they give.
 
+use super::breakup::{JetModel, DEFAULT_BREAKUP_COEFFICIENT, PLAUSIBLE_BREAKUP};
 use super::design::SpraySpec;
 use super::jet::JetExit;
+use super::pattern::{wetted_radius, WettedRadius};
 use super::trajectory::{
-    fly_jet, invalid, require_positive, FlightEnv, FlightOptions, ThrowError, Tolerances,
+    invalid, require_positive, FlightEnv, FlightOptions, ThrowError, Tolerances,
 };
 use std::f64::consts::LN_2;
 
@@ -51,12 +61,14 @@ use std::f64::consts::LN_2;
 pub const DEFAULT_BINS: usize = 40;
 /// Default Rosin–Rammler spread exponent n (Li, Kawano & Yu 1994, from memory).
 pub const DEFAULT_SPREAD: f64 = 2.5;
-/// Volume fraction below the default largest drop.
-pub const LARGEST_QUANTILE: f64 = 0.999;
+/// Largest drop a sprinkler makes, m (Montero, Tarjuelo & Carrión 2003).
+pub const LARGEST_DROP_CAP_M: f64 = 9.0e-3;
 /// Surface tension of water against air used by the default d50, N/m (about 20 °C).
 pub const SURFACE_TENSION_N_M: f64 = 0.0728;
-/// Critical Weber number for aerodynamic break-up used by the default d50.
-pub const CRITICAL_WEBER: f64 = 12.0;
+/// Constant of the default d50 = C · d_n · We^(−1/3) (module docs).
+pub const D50_WEBER_CONSTANT: f64 = 1.45;
+/// The default d50 is at most this fraction of the largest drop.
+pub const D50_MAX_OVER_LARGEST: f64 = 0.8;
 /// Floor on the smallest drop of a spectrum, m.
 pub const SMALLEST_DROP_FLOOR_M: f64 = 1e-4;
 
@@ -74,8 +86,13 @@ pub fn rosin_rammler_quantile(p: f64, d50_m: f64, spread: f64) -> f64 {
     d50_m * (-(1.0 - p).ln() / LN_2).powf(1.0 / spread)
 }
 
-/// Default volume median diameter from nozzle size and pressure (the
-/// critical-Weber estimate in the module docs; an assumption), m.
+/// Default largest drop of a nozzle, m: its diameter, at most [`LARGEST_DROP_CAP_M`].
+pub fn default_largest_m(nozzle_diameter_m: f64) -> f64 {
+    nozzle_diameter_m.min(LARGEST_DROP_CAP_M)
+}
+
+/// Default volume median diameter from nozzle size and pressure (module
+/// docs: d50 = 1.45 d_n We^(−1/3), at most 0.8 × the default largest drop), m.
 ///
 /// `nozzle_diameter_m`: nozzle exit diameter; `nozzle_pressure_pa`: pressure
 /// drop across the nozzle; densities from `env`.
@@ -95,14 +112,15 @@ pub fn default_d50_m(
     let rho_a = require_positive("air density (kg/m³)", env.air_density_kg_m3)?;
     let rho_w = require_positive("water density (kg/m³)", env.water_density_kg_m3)?;
     let w2 = 2.0 * nozzle_pressure_pa / rho_w;
-    let d_crit = CRITICAL_WEBER * SURFACE_TENSION_N_M / (rho_a * w2);
-    Ok((nozzle_diameter_m * d_crit * d_crit).cbrt())
+    let weber = rho_a * w2 * nozzle_diameter_m / SURFACE_TENSION_N_M;
+    let d50 = D50_WEBER_CONSTANT * nozzle_diameter_m * weber.cbrt().recip();
+    Ok(d50.min(D50_MAX_OVER_LARGEST * default_largest_m(nozzle_diameter_m)))
 }
 
 /// Where the spectrum's d50 came from.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum D50Source {
-    /// The critical-Weber default (an assumption).
+    /// The Weber-scaled default (module docs).
     Default,
     /// Given by the user.
     Given,
@@ -122,7 +140,7 @@ pub struct DropBin {
 /// A nozzle's drop-size spectrum, split into bins.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Spectrum {
-    /// Volume median diameter of the (untruncated) distribution, m, after scaling.
+    /// Volume median diameter of the (untruncated) distribution, m.
     pub d50_m: f64,
     /// Where d50 came from.
     pub d50_source: D50Source,
@@ -132,27 +150,22 @@ pub struct Spectrum {
     pub smallest_m: f64,
     /// Largest drop, m (upper edge of the last bin).
     pub largest_m: f64,
-    /// Calibration factor applied to all sizes (1 when not calibrated).
-    pub scale: f64,
     /// Bins from small to large; volume fractions sum to 1.
     pub bins: Vec<DropBin>,
 }
 
 impl Spectrum {
-    /// Builds the spectrum of one jet from the user's overrides in `spec`.
-    ///
-    /// `bins` ≥ 1; `scale` > 0 multiplies d50, smallest and largest (calibration).
+    /// Builds the spectrum of one jet from the user's overrides in `spec`
+    /// (`bins` ≥ 1).
     pub fn for_jet(
         spec: &SpraySpec,
         jet: &JetExit,
         env: &FlightEnv,
         bins: usize,
-        scale: f64,
     ) -> Result<Spectrum, ThrowError> {
         if bins == 0 {
             return Err(invalid("drop-size bins", 0.0, "at least 1"));
         }
-        require_positive("drop-size scale factor", scale)?;
         let (d50, source) = match spec.d50_m {
             Some(d) => (require_positive("d50 (m)", d)?, D50Source::Given),
             None => (
@@ -167,18 +180,13 @@ impl Spectrum {
         };
         let largest = match spec.largest_m {
             Some(d) => require_positive("largest drop (m)", d)?,
-            None => rosin_rammler_quantile(LARGEST_QUANTILE, d50, spread),
+            None => default_largest_m(require_positive(
+                "nozzle diameter (m)",
+                jet.nozzle_diameter_m,
+            )?),
         };
         let smallest = (d50 / 10.0).max(SMALLEST_DROP_FLOOR_M).min(0.5 * largest);
-        Spectrum::from_parts(
-            d50 * scale,
-            source,
-            spread,
-            smallest * scale,
-            largest * scale,
-            bins,
-            scale,
-        )
+        Spectrum::from_parts(d50, source, spread, smallest, largest, bins)
     }
 
     /// Builds a spectrum from explicit sizes (all in m).
@@ -189,7 +197,6 @@ impl Spectrum {
         smallest_m: f64,
         largest_m: f64,
         bins: usize,
-        scale: f64,
     ) -> Result<Spectrum, ThrowError> {
         require_positive("d50 (m)", d50_m)?;
         require_positive("spray spread n", spread)?;
@@ -244,7 +251,6 @@ impl Spectrum {
             spread,
             smallest_m,
             largest_m,
-            scale,
             bins: out,
         })
     }
@@ -268,44 +274,6 @@ impl Spectrum {
     }
 }
 
-/// Landing distance of the largest drop of each jet's spectrum, m (`None` for a
-/// jet that does not flow), in still air.
-pub fn largest_drop_throws_m(
-    jets: &[JetExit],
-    spec: &SpraySpec,
-    env: &FlightEnv,
-    flight: &FlightOptions,
-    scale: f64,
-) -> Result<Vec<Option<f64>>, ThrowError> {
-    let still = env.still();
-    jets.iter()
-        .map(|jet| {
-            if !flows(jet) {
-                return Ok(None);
-            }
-            let s = Spectrum::for_jet(spec, jet, &still, 1, scale)?;
-            Ok(Some(fly_jet(jet, s.largest_m, &still, flight)?.distance_m))
-        })
-        .collect()
-}
-
-/// Wetted radius in still air: the farthest landing of any jet's largest drop, m.
-///
-/// Returns an error when no jet flows.
-pub fn wetted_radius_m(
-    jets: &[JetExit],
-    spec: &SpraySpec,
-    env: &FlightEnv,
-    flight: &FlightOptions,
-    scale: f64,
-) -> Result<f64, ThrowError> {
-    largest_drop_throws_m(jets, spec, env, flight, scale)?
-        .into_iter()
-        .flatten()
-        .reduce(f64::max)
-        .ok_or_else(no_flow)
-}
-
 /// True when a jet carries water (a finite, positive flow).
 pub(crate) fn flows(jet: &JetExit) -> bool {
     jet.flow_m3_s.is_finite() && jet.flow_m3_s > 0.0
@@ -318,24 +286,56 @@ pub(crate) fn no_flow() -> ThrowError {
     }
 }
 
+/// The breakup coefficient of `spec` (its `breakup` setting, else the
+/// published default).
+pub fn breakup_coefficient(spec: &SpraySpec) -> f64 {
+    spec.breakup.unwrap_or(DEFAULT_BREAKUP_COEFFICIENT)
+}
+
+/// `flight` with the jet model of `spec`, unless `flight` flies bare drops
+/// (then drops still leave the nozzle exit with full drag).
+pub fn flight_for(spec: &SpraySpec, flight: &FlightOptions) -> FlightOptions {
+    if flight.jet.is_intact() {
+        FlightOptions {
+            jet: JetModel {
+                breakup_coefficient: breakup_coefficient(spec),
+                ..flight.jet
+            },
+            ..*flight
+        }
+    } else {
+        *flight
+    }
+}
+
 /// Result of matching the model's wetted radius to a measured one.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Calibration {
-    /// Factor on all drop sizes that makes the model match.
-    pub scale: f64,
+    /// Jet breakup coefficient that makes the model match.
+    pub breakup_coefficient: f64,
+    /// The coefficient before calibration (the scenario's, or the default).
+    pub uncalibrated_breakup_coefficient: f64,
     /// The measured wetted radius, m.
     pub measured_radius_m: f64,
-    /// Model wetted radius with the factor applied, m.
+    /// Model wetted radius with the calibrated coefficient, m.
     pub model_radius_m: f64,
-    /// Model wetted radius before calibration (scale 1), m.
+    /// Model wetted radius before calibration, m.
     pub uncalibrated_radius_m: f64,
 }
 
-/// Scale range tried by [`calibrate`].
-pub const CALIBRATION_SCALE_RANGE: (f64, f64) = (0.1, 10.0);
+impl Calibration {
+    /// `spec` with the calibrated breakup coefficient.
+    pub fn applied_to(&self, spec: &SpraySpec) -> SpraySpec {
+        SpraySpec {
+            breakup: Some(self.breakup_coefficient),
+            ..*spec
+        }
+    }
+}
 
-/// Finds the factor on drop sizes for which the model's wetted radius (still
-/// air, largest drop) equals `measured_radius_m`.
+/// Finds the jet breakup coefficient, within [`PLAUSIBLE_BREAKUP`], for which
+/// the model's wetted radius (still air, the standard's threshold) equals
+/// `measured_radius_m`.
 pub fn calibrate(
     jets: &[JetExit],
     spec: &SpraySpec,
@@ -344,9 +344,20 @@ pub fn calibrate(
     measured_radius_m: f64,
 ) -> Result<Calibration, ThrowError> {
     require_positive("measured wetted radius (m)", measured_radius_m)?;
-    let radius = |s: f64| wetted_radius_m(jets, spec, env, flight, s);
-    let uncalibrated = radius(1.0)?;
-    let (lo, hi) = CALIBRATION_SCALE_RANGE;
+    let flight = FlightOptions {
+        jet: JetModel::default(),
+        ..*flight
+    };
+    let radius = |c: f64| -> Result<f64, ThrowError> {
+        let s = SpraySpec {
+            breakup: Some(c),
+            ..*spec
+        };
+        wetted_radius(jets, &s, env, &flight).map(|w: WettedRadius| w.standard_m)
+    };
+    let c0 = breakup_coefficient(spec);
+    let uncalibrated = radius(c0)?;
+    let (lo, hi) = PLAUSIBLE_BREAKUP;
     let r_lo = radius(lo)?;
     let r_hi = radius(hi)?;
     if !(r_lo <= measured_radius_m && measured_radius_m <= r_hi) {
@@ -354,21 +365,20 @@ pub fn calibrate(
             measured_m: measured_radius_m,
             min_m: r_lo,
             max_m: r_hi,
-            min_scale: lo,
-            max_scale: hi,
+            min_breakup: lo,
+            max_breakup: hi,
         });
     }
-    // Brent on ln s: the throw changes smoothly and much faster at small s.
     let mut failure = None;
     let mut tol = Tolerances {
-        x_tol: 1e-9,
-        f_tol: 1e-7 * measured_radius_m,
+        x_tol: 1e-7,
+        f_tol: 1e-6 * measured_radius_m,
         max_iter: 200,
     };
-    let ln_s = roots::find_root_brent(
-        lo.ln(),
-        hi.ln(),
-        |x: f64| match radius(x.exp()) {
+    let found = roots::find_root_brent(
+        lo,
+        hi,
+        |c: f64| match radius(c) {
             Ok(r) => r - measured_radius_m,
             Err(e) => {
                 failure.get_or_insert(e);
@@ -380,20 +390,15 @@ pub fn calibrate(
     if let Some(e) = failure {
         return Err(e);
     }
-    let scale = ln_s
-        .map_err(|e| ThrowError::InvalidInput {
-            field: "calibration".to_string(),
-            detail: format!(
-                "did not converge on drop-size scales {lo:.4} to {hi:.4} (ln {:.4} to {:.4}): {e}",
-                lo.ln(),
-                hi.ln()
-            ),
-        })?
-        .exp();
+    let coefficient = found.map_err(|e| ThrowError::InvalidInput {
+        field: "calibration".to_string(),
+        detail: format!("did not converge on breakup coefficients {lo} to {hi}: {e}"),
+    })?;
     Ok(Calibration {
-        scale,
+        breakup_coefficient: coefficient,
+        uncalibrated_breakup_coefficient: c0,
         measured_radius_m,
-        model_radius_m: radius(scale)?,
+        model_radius_m: radius(coefficient)?,
         uncalibrated_radius_m: uncalibrated,
     })
 }
@@ -420,6 +425,7 @@ mod tests {
             flow_m3_s: 1.0e-4,
             nozzle_diameter_m: 2.4e-3,
             nozzle_pressure_pa: 2.8e5,
+            omega_rad_s: 0.0,
         }
     }
 
@@ -432,8 +438,7 @@ mod tests {
 
     #[test]
     fn bins_sum_to_one_and_cover_the_range() {
-        let s =
-            Spectrum::for_jet(&SpraySpec::default(), &jet(), &env(), DEFAULT_BINS, 1.0).unwrap();
+        let s = Spectrum::for_jet(&SpraySpec::default(), &jet(), &env(), DEFAULT_BINS).unwrap();
         assert_eq!(s.bins.len(), 40);
         let sum: f64 = s.bins.iter().map(|b| b.volume_fraction).sum();
         assert!((sum - 1.0).abs() < 1e-14);
@@ -443,22 +448,32 @@ mod tests {
         for w in s.bins.windows(2) {
             assert_eq!(w[0].upper_m, w[1].lower_m);
         }
-        // Default largest: 99.9 % quantile, d50·(ln 1000/ln 2)^(1/2.5).
-        assert!((s.largest_m / s.d50_m - (1000f64.ln() / LN_2).powf(0.4)).abs() < 1e-12);
+        // Default largest: the nozzle diameter.
+        assert_eq!(s.largest_m, 2.4e-3);
     }
 
     #[test]
     fn default_d50_follows_the_documented_relation() {
         let e = env();
-        let d = default_d50_m(2.4e-3, 2.8e5, &e).unwrap();
-        let w2 = 2.0 * 2.8e5 / e.water_density_kg_m3;
-        let dc = 12.0 * 0.0728 / (e.air_density_kg_m3 * w2);
-        assert!((d - (2.4e-3 * dc * dc).cbrt()).abs() < 1e-15);
-        assert!(d > 1.4e-3 && d < 1.8e-3);
-        // Higher pressure, finer spray: d50 ∝ p^(−2/3).
-        let d2 = default_d50_m(2.4e-3, 2.8e5 * 8.0, &e).unwrap();
-        assert!((d / d2 - 4.0).abs() < 1e-9);
+        let d = default_d50_m(5e-3, 3.0e5, &e).unwrap();
+        let we = e.air_density_kg_m3 * 2.0 * 3.0e5 / e.water_density_kg_m3 * 5e-3 / 0.0728;
+        assert!((d - 1.45 * 5e-3 / we.cbrt()).abs() < 1e-15);
+        // The anchor of the constant: d50 ≈ 0.4 d_n for 5 mm at 300 kPa.
+        assert!((d / 5e-3 - 0.4).abs() < 0.01, "{d}");
+        // Higher pressure, finer spray (d50 ∝ p^(−1/3)); bigger nozzle, bigger drops.
+        let d8 = default_d50_m(5e-3, 3.0e5 * 8.0, &e).unwrap();
+        assert!((d / d8 - 2.0).abs() < 1e-9);
+        assert!(default_d50_m(8e-3, 3.0e5, &e).unwrap() > d);
+        // Never above 0.8 of the largest drop, even for a slow small jet.
+        let slow = default_d50_m(1e-3, 2.0e3, &e).unwrap();
+        assert!((slow - 0.8e-3).abs() < 1e-15);
         assert!(default_d50_m(2.4e-3, 0.0, &e).is_err());
+    }
+
+    #[test]
+    fn largest_drop_is_the_nozzle_at_most_nine_mm() {
+        assert_eq!(default_largest_m(0.5e-3), 0.5e-3);
+        assert_eq!(default_largest_m(12e-3), 9e-3);
     }
 
     #[test]
@@ -467,8 +482,9 @@ mod tests {
             d50_m: Some(1.0e-3),
             spread: Some(3.0),
             largest_m: Some(3.0e-3),
+            breakup: None,
         };
-        let s = Spectrum::for_jet(&spec, &jet(), &env(), 10, 1.0).unwrap();
+        let s = Spectrum::for_jet(&spec, &jet(), &env(), 10).unwrap();
         assert_eq!(s.d50_source, D50Source::Given);
         assert_eq!((s.d50_m, s.spread, s.largest_m), (1.0e-3, 3.0, 3.0e-3));
         assert!((s.diameter_at_fraction(1.0) - 3.0e-3).abs() < 1e-12);
@@ -476,19 +492,29 @@ mod tests {
             largest_m: Some(-1.0),
             ..spec
         };
-        assert!(Spectrum::for_jet(&bad, &jet(), &env(), 10, 1.0).is_err());
+        assert!(Spectrum::for_jet(&bad, &jet(), &env(), 10).is_err());
     }
 
     #[test]
-    fn calibration_recovers_a_known_scale() {
+    fn calibration_recovers_a_known_breakup_coefficient() {
         let (e, f) = (env(), FlightOptions::pattern());
         let spec = SpraySpec::default();
-        let target = wetted_radius_m(&[jet()], &spec, &e, &f, 0.8).unwrap();
+        let known = SpraySpec {
+            breakup: Some(7.0),
+            ..spec
+        };
+        let target = wetted_radius(&[jet()], &known, &e, &f).unwrap().standard_m;
         let c = calibrate(&[jet()], &spec, &e, &f, target).unwrap();
-        assert!((c.scale - 0.8).abs() < 1e-4, "{}", c.scale);
-        assert!((c.model_radius_m - target).abs() < 1e-5);
+        assert!(
+            (c.breakup_coefficient - 7.0).abs() < 1e-3,
+            "{}",
+            c.breakup_coefficient
+        );
+        assert!((c.model_radius_m - target).abs() < 1e-4);
         assert!(c.uncalibrated_radius_m > target);
+        assert_eq!(c.uncalibrated_breakup_coefficient, 11.0);
         let far = calibrate(&[jet()], &spec, &e, &f, 500.0).unwrap_err();
         assert!(matches!(far, ThrowError::CalibrationUnreachable { .. }));
+        assert!(far.to_string().contains("500.00 m"), "{far}");
     }
 }

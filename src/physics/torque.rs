@@ -69,6 +69,7 @@ pub fn jets(design: &Design, state: &SupplyState) -> Vec<JetExit> {
             flow_m3_s: n.flow_m3_s,
             nozzle_diameter_m: arm.nozzle.diameter_m,
             nozzle_pressure_pa: n.nozzle_pressure_pa,
+            omega_rad_s: state.omega_rad_s,
         })
         .collect()
 }

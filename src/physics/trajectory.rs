@@ -49,6 +49,7 @@
 //! crosses it, by Brent's method, so the landing point does not depend on where
 //! the steps happen to fall.
 
+use super::breakup::{break_up, drag_factor, Breakup, JetModel};
 use super::design::{Wind, GRAVITY_M_S2};
 use super::fluid::{AirProps, WaterProps};
 use super::jet::JetExit;
@@ -77,23 +78,23 @@ pub enum ThrowError {
         /// The limit that was hit, in words.
         limit: String,
     },
-    /// The measured wetted radius cannot be matched by scaling drop sizes.
+    /// The measured wetted radius needs an implausible jet.
     #[error(
-        "a measured wetted radius of {measured_m:.2} m cannot be matched: scaling the \
-         drop sizes from {min_scale} to {max_scale} gives {min_m:.2}–{max_m:.2} m; \
-         check the measurement, the nozzle pressure and the jet angles"
+        "a measured wetted radius of {measured_m:.2} m cannot be explained by a plausible \
+         jet: breakup coefficients from {min_breakup} to {max_breakup} give \
+         {min_m:.2}–{max_m:.2} m; check the measurement, the nozzle pressure and the jet angles"
     )]
     CalibrationUnreachable {
         /// Measured wetted radius, m.
         measured_m: f64,
-        /// Throw with the smallest scale tried, m.
+        /// Wetted radius with the smallest plausible coefficient, m.
         min_m: f64,
-        /// Throw with the largest scale tried, m.
+        /// Wetted radius with the largest plausible coefficient, m.
         max_m: f64,
-        /// Smallest scale tried.
-        min_scale: f64,
-        /// Largest scale tried.
-        max_scale: f64,
+        /// Smallest plausible breakup coefficient.
+        min_breakup: f64,
+        /// Largest plausible breakup coefficient.
+        max_breakup: f64,
     },
 }
 
@@ -308,6 +309,9 @@ pub struct FlightOptions {
     pub max_time_s: f64,
     /// Give up after this many steps (accepted and rejected).
     pub max_steps: usize,
+    /// The intact jet and sheltered spray of [`fly_jet`] ([`JetModel::bare_drops`]
+    /// flies drops from the nozzle exit with full drag).
+    pub jet: JetModel,
 }
 
 impl Default for FlightOptions {
@@ -319,6 +323,7 @@ impl Default for FlightOptions {
             atol: 1e-9,
             max_time_s: 600.0,
             max_steps: 100_000,
+            jet: JetModel::default(),
         }
     }
 }
@@ -341,7 +346,7 @@ impl FlightOptions {
         if self.max_steps == 0 {
             return Err(invalid("step limit", 0.0, "at least 1"));
         }
-        Ok(())
+        self.jet.validate()
     }
 }
 
@@ -360,6 +365,9 @@ pub struct Landing {
     pub apex_m: f64,
     /// Accepted integration steps.
     pub steps: usize,
+    /// Where the drop started flying as a drop, m: the jet's breakup point
+    /// (the nozzle exit for a bare drop).
+    pub breakup_point_m: Vector3<f64>,
 }
 
 /// One sampled point of a flight path.
@@ -389,6 +397,12 @@ type State = [f64; 6];
 struct Drop {
     /// 3 ρ_air F(d) / (4 ρ_w d), 1/m.
     k: f64,
+    /// Breakup point the sheltering is measured from, m.
+    origin: Vector3<f64>,
+    /// Relaxation length of the sheltered spray's drag, m (0: full drag throughout).
+    relaxation_m: f64,
+    /// Drag factor at the breakup point.
+    initial_drag_factor: f64,
     /// ρ_air d / μ_air, s/m (Re per unit relative speed).
     re_per_speed: f64,
     drag: DragLaw,
@@ -399,6 +413,9 @@ struct Drop {
 impl Drop {
     fn new(diameter_m: f64, env: &FlightEnv, drag: DragLaw) -> Self {
         Drop {
+            origin: Vector3::zeros(),
+            relaxation_m: 0.0,
+            initial_drag_factor: 1.0,
             k: 3.0 * env.air_density_kg_m3 * drag.size_factor(diameter_m)
                 / (4.0 * env.water_density_kg_m3 * diameter_m),
             re_per_speed: env.air_density_kg_m3 * diameter_m / env.air_viscosity_pa_s,
@@ -419,7 +436,14 @@ impl Drop {
     fn rhs(&self, y: &State) -> State {
         let u = [y[3] - self.wind.x, y[4] - self.wind.y, y[5] - self.wind.z];
         let speed = (u[0] * u[0] + u[1] * u[1] + u[2] * u[2]).sqrt();
-        let c = self.drag_rate(speed);
+        let mut c = self.drag_rate(speed);
+        if self.relaxation_m > 0.0 {
+            let s = ((y[0] - self.origin.x).powi(2)
+                + (y[1] - self.origin.y).powi(2)
+                + (y[2] - self.origin.z).powi(2))
+            .sqrt();
+            c *= drag_factor(s, self.relaxation_m, self.initial_drag_factor);
+        }
         [y[3], y[4], y[5], -c * u[0], -c * u[1], -self.g - c * u[2]]
     }
 }
@@ -604,13 +628,17 @@ fn initial_step(drop: &Drop, y0: &State, f0: &State, opts: &FlightOptions) -> f6
     (100.0 * h0).min(h1).min(opts.max_time_s)
 }
 
-/// Integrates one drop to the ground. `record` receives every accepted step.
+/// Integrates one drop to the ground. `shelter` = (relaxation length m,
+/// initial drag factor): a relaxation length > 0 shelters it as a drop of a
+/// fresh spray that broke up at `start_m` ([`drag_factor`]). `record`
+/// receives every accepted step.
 fn integrate(
     start_m: &Vector3<f64>,
     velocity_m_s: &Vector3<f64>,
     diameter_m: f64,
     env: &FlightEnv,
     opts: &FlightOptions,
+    shelter: (f64, f64),
     mut record: Option<&mut Vec<DenseStep>>,
 ) -> Result<Landing, ThrowError> {
     require_finite_vector("nozzle position (m)", start_m)?;
@@ -625,7 +653,12 @@ fn integrate(
             "zero or more",
         ));
     }
-    let drop = Drop::new(diameter_m, env, opts.drag);
+    let drop = Drop {
+        origin: *start_m,
+        relaxation_m: shelter.0,
+        initial_drag_factor: shelter.1,
+        ..Drop::new(diameter_m, env, opts.drag)
+    };
     let mut y: State = [
         start_m.x,
         start_m.y,
@@ -643,6 +676,7 @@ fn integrate(
             velocity_m_s: Vector3::new(y[3], y[4], y[5]),
             apex_m: y[2],
             steps: 0,
+            breakup_point_m: *start_m,
         }
     };
     if y[2] == 0.0 && y[5] <= 0.0 {
@@ -747,6 +781,7 @@ fn integrate(
                 velocity_m_s: Vector3::new(yl[3], yl[4], yl[5]),
                 apex_m: apex,
                 steps: accepted,
+                breakup_point_m: *start_m,
             });
         }
         apex = apex.max(y_new[2]);
@@ -768,7 +803,8 @@ fn integrate(
 }
 
 /// Flies one drop of diameter `diameter_m` from `start_m` with initial velocity
-/// `velocity_m_s` (ground frame) until it touches z = 0.
+/// `velocity_m_s` (ground frame) until it touches z = 0, with full drag all
+/// the way (a lone drop; no intact jet, no sheltering).
 pub fn fly(
     start_m: &Vector3<f64>,
     velocity_m_s: &Vector3<f64>,
@@ -776,21 +812,82 @@ pub fn fly(
     env: &FlightEnv,
     opts: &FlightOptions,
 ) -> Result<Landing, ThrowError> {
-    integrate(start_m, velocity_m_s, diameter_m, env, opts, None)
+    integrate(
+        start_m,
+        velocity_m_s,
+        diameter_m,
+        env,
+        opts,
+        (0.0, 1.0),
+        None,
+    )
 }
 
-/// Flies one drop of diameter `diameter_m` from a nozzle's jet exit.
+/// A drop's flight after the intact stream: the stream's own landing when it
+/// reached the ground intact, else the drop flown from the breakup point in
+/// the sheltered spray. Times and the apex count from the nozzle.
+pub fn fly_from_breakup(
+    breakup: &Breakup,
+    diameter_m: f64,
+    env: &FlightEnv,
+    opts: &FlightOptions,
+) -> Result<Landing, ThrowError> {
+    fly_after_breakup(breakup, diameter_m, env, opts, None)
+}
+
+fn fly_after_breakup(
+    breakup: &Breakup,
+    diameter_m: f64,
+    env: &FlightEnv,
+    opts: &FlightOptions,
+    record: Option<&mut Vec<DenseStep>>,
+) -> Result<Landing, ThrowError> {
+    if breakup.landed_intact {
+        require_positive("drop diameter (m)", diameter_m)?;
+        let point = breakup.point_m;
+        return Ok(Landing {
+            point_m: point,
+            distance_m: point.xy().norm(),
+            time_s: breakup.time_s,
+            velocity_m_s: breakup.velocity_m_s,
+            apex_m: breakup.apex_m,
+            steps: 0,
+            breakup_point_m: point,
+        });
+    }
+    let mut landing = integrate(
+        &breakup.point_m,
+        &breakup.velocity_m_s,
+        diameter_m,
+        env,
+        opts,
+        (breakup.relaxation_m, breakup.initial_drag_factor),
+        record,
+    )?;
+    landing.time_s += breakup.time_s;
+    landing.apex_m = landing.apex_m.max(breakup.apex_m);
+    Ok(landing)
+}
+
+/// Flies one drop of diameter `diameter_m` from a nozzle's jet: the intact
+/// stream to its breakup point, then the drop in the sheltered spray
+/// ([`crate::physics::breakup`]); with `opts.jet` switched off, a bare drop
+/// from the nozzle exit.
 pub fn fly_jet(
     jet: &JetExit,
     diameter_m: f64,
     env: &FlightEnv,
     opts: &FlightOptions,
 ) -> Result<Landing, ThrowError> {
-    fly(&jet.position_m, &jet.velocity_m_s, diameter_m, env, opts)
+    env.validate()?;
+    opts.validate()?;
+    let breakup = break_up(jet, env, &opts.jet)?;
+    fly_after_breakup(&breakup, diameter_m, env, opts, None)
 }
 
-/// Flies one drop from a jet exit and samples its path at `samples` (≥ 2)
-/// instants evenly spaced in time, the first at the nozzle and the last on the ground.
+/// Flies one drop from a jet exit (as [`fly_jet`]) and samples its path at
+/// `samples` (≥ 2) instants evenly spaced in time, the first at the nozzle and
+/// the last on the ground; the intact stream is part of the path.
 pub fn flight_path(
     jet: &JetExit,
     diameter_m: f64,
@@ -801,31 +898,34 @@ pub fn flight_path(
     if samples < 2 {
         return Err(invalid("path samples", samples as f64, "at least 2"));
     }
+    env.validate()?;
+    opts.validate()?;
+    let breakup = break_up(jet, env, &opts.jet)?;
     let mut steps = Vec::new();
-    let landing = integrate(
-        &jet.position_m,
-        &jet.velocity_m_s,
-        diameter_m,
-        env,
-        opts,
-        Some(&mut steps),
-    )?;
+    let landing = fly_after_breakup(&breakup, diameter_m, env, opts, Some(&mut steps))?;
+    let g = env.gravity_m_s2;
+    let intact_at =
+        |t: f64| jet.position_m + jet.velocity_m_s * t - Vector3::z() * (0.5 * g * t * t);
     let mut points = Vec::with_capacity(samples);
     let last = samples - 1;
     let mut idx = 0usize;
     for i in 0..samples {
         let t = landing.time_s * i as f64 / last as f64;
-        let position = if i == 0 || steps.is_empty() {
+        let position = if i == 0 {
             jet.position_m
         } else if i == last {
             landing.point_m
+        } else if t <= breakup.time_s {
+            let p = intact_at(t);
+            Vector3::new(p.x, p.y, p.z.max(0.0))
         } else {
-            while idx + 1 < steps.len() && steps.get(idx).is_some_and(|s| s.t0 + s.h < t) {
+            let td = t - breakup.time_s;
+            while idx + 1 < steps.len() && steps.get(idx).is_some_and(|s| s.t0 + s.h < td) {
                 idx += 1;
             }
             match steps.get(idx) {
                 Some(s) => {
-                    let theta = ((t - s.t0) / s.h).clamp(0.0, 1.0);
+                    let theta = ((td - s.t0) / s.h).clamp(0.0, 1.0);
                     let y = s.at(theta);
                     Vector3::new(y[0], y[1], y[2].max(0.0))
                 }
@@ -1009,6 +1109,7 @@ mod tests {
             flow_m3_s: 1e-4,
             nozzle_diameter_m: 2.4e-3,
             nozzle_pressure_pa: 2.8e5,
+            omega_rad_s: 0.0,
         };
         let path = flight_path(&jet, 2e-3, &env(), &FlightOptions::default(), 25).unwrap();
         assert_eq!(path.points.len(), 25);

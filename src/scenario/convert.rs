@@ -11,7 +11,7 @@
 
 use std::fmt;
 
-use super::schema::{self, DropSize, Scenario, Spread, FORMAT_VERSION};
+use super::schema::{self, Breakup, DropSize, Scenario, Spread, FORMAT_VERSION};
 use super::tags::{
     Angle, Area, Density, FlowRate, Length, Mass, MomentOfInertia, Pressure, Speed, Temperature,
     Torque,
@@ -208,6 +208,12 @@ impl Checker {
     }
 }
 
+use crate::physics::breakup::PLAUSIBLE_BREAKUP;
+use crate::physics::hydraulics;
+
+/// Pascals in one pound-force per square inch.
+const PA_PER_PSI: f64 = 6_894.757_293_168;
+
 const DEG: f64 = std::f64::consts::PI / 180.0;
 
 /// Largest size of a value the model computes with, in SI units. Far above
@@ -293,6 +299,25 @@ impl Scenario {
         };
 
         let rotor = self.rotor_design(&mut c);
+        if let (d::Supply::Flow { total_m3_s }, schema::Supply::Flow(q)) = (supply, self.supply) {
+            let rho = crate::physics::fluid::WaterProps::at(water_temperature_c).density_kg_m3;
+            let need = hydraulics::least_nozzle_pressure_for_flow_pa(&rotor.arms, total_m3_s, rho);
+            if let Some(need) = need.filter(|p| *p > hydraulics::MAX_NOZZLE_PRESSURE_PA) {
+                c.push(
+                    "supply.Flow",
+                    q,
+                    format!(
+                        "cannot pass through these nozzles: it would need at least {:.0} kPa \
+                         ({:.0} psi) across them, and the model covers up to {:.0} kPa \
+                         ({:.0} psi); give larger nozzles or less flow",
+                        need / 1e3,
+                        need / PA_PER_PSI,
+                        hydraulics::MAX_NOZZLE_PRESSURE_PA / 1e3,
+                        hydraulics::MAX_NOZZLE_PRESSURE_PA / PA_PER_PSI
+                    ),
+                );
+            }
+        }
         let friction = self.friction_design(&mut c);
         let spray = self.spray_design(&mut c);
         let layout = self.layout.map(|l| match l {
@@ -572,10 +597,32 @@ impl Scenario {
             Spread::Auto => None,
             Spread::Value(n) => Some(c.positive("spray.spread", n)),
         };
+        let breakup = match s.breakup {
+            Breakup::Auto => None,
+            Breakup::Value(b) => {
+                let (lo, hi) = PLAUSIBLE_BREAKUP;
+                match c.finite("spray.breakup", b) {
+                    Some(v) if (lo..=hi).contains(&v) => Some(v),
+                    Some(v) => {
+                        c.push(
+                            "spray.breakup",
+                            b,
+                            format!(
+                                "must be from {lo} to {hi} (a plausible jet; the published \
+                                 default is 11), or Auto"
+                            ),
+                        );
+                        Some(v)
+                    }
+                    None => Some(0.0),
+                }
+            }
+        };
         d::SpraySpec {
             d50_m,
             spread,
             largest_m,
+            breakup,
         }
     }
 
@@ -706,6 +753,7 @@ impl Scenario {
                 d50: drop(design.spray.d50_m),
                 spread: design.spray.spread.map_or(Spread::Auto, Spread::Value),
                 largest: drop(design.spray.largest_m),
+                breakup: design.spray.breakup.map_or(Breakup::Auto, Breakup::Value),
             },
             layout: design.layout.map(|l| match l {
                 d::Layout::Square { spacing_m } => schema::Layout::Square {

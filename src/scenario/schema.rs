@@ -329,6 +329,24 @@ pub struct Spray {
     pub spread: Spread,
     /// Largest drop: `Auto` or a length.
     pub largest: DropSize,
+    /// Jet breakup coefficient C_b (intact length over d·√(ρ_w/ρ_air)):
+    /// `Auto` (the published 11, model.md M7) or a bare number from 2 to 22.
+    pub breakup: Breakup,
+}
+
+/// A jet breakup coefficient, or `Auto`.
+#[derive(Debug, Clone, Copy, PartialEq, Default, Serialize, Deserialize)]
+#[serde(
+    untagged,
+    expecting = "expected `Auto` or a bare number such as 8 (the breakup coefficient has no unit)"
+)]
+pub enum Breakup {
+    /// The published default.
+    #[default]
+    #[serde(with = "auto_word")]
+    Auto,
+    /// The coefficient C_b.
+    Value(f64),
 }
 
 /// A drop size, or `Auto` for the documented relation.

@@ -152,8 +152,9 @@ pub fn spray(design: &Design, report: &SpinReport) -> SprayResult {
                 .iter()
                 .zip(&h.throw.nozzles)
                 .map(|(jet, nt)| {
-                    nt.as_ref()
-                        .and_then(|nt| nozzle_paths(jet, nt, &env, &opts.flight, PATH_SAMPLES).ok())
+                    nt.as_ref().and_then(|nt| {
+                        nozzle_paths(jet, nt, &design.spray, &env, &opts.flight, PATH_SAMPLES).ok()
+                    })
                 })
                 .collect();
             let layout = design.layout.map(|l| {

@@ -40,8 +40,10 @@ pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
         }
     };
     let mut head = vec![Line::raw(format!(
-        "wetted radius {}{}",
+        "wetted radius {} · farthest drop {} · paths peak {} high{}",
         q(throw.wetted_radius_m),
+        q(throw.farthest_drop_m),
+        q(throw.peak_height_m),
         if app.report.operating.is_none() {
             " (rotor not turning)"
         } else {
