@@ -44,6 +44,17 @@
 //! a fast garden spinner shortens it noticeably. This stretching model is the
 //! project's own reasoning from continuity, not a published correlation.
 //!
+//! # Where drops leave the stream
+//!
+//! The stream sheds drops from its surface before its core breaks: small
+//! drops strip off first, the core breaks into the largest (the mechanism of
+//! turbulent primary breakup described by Sallam, Dai & Faeth 2002, *AIAA J.*
+//! 40(8); no published rule gives the place by size). This project's rule: a
+//! drop of diameter d leaves after the fraction d/d_max of the intact length
+//! ([`release_fraction`]), the largest at the breakup point. Each size still
+//! leaves from one place, so the cost is one flight per drop size, and landing
+//! distance keeps growing with size.
+//!
 //! # The spray after breakup
 //!
 //! Drops leave the breakup point with the stream's velocity there. The dense
@@ -245,90 +256,132 @@ pub fn intact_length_m(
     })
 }
 
-/// Flies the intact stream of `jet` drag-free to its breakup point.
-///
-/// Wind does not act on the intact stream (its drag per unit mass is
-/// negligible). With `model` switched off the breakup point is the nozzle exit.
-pub fn break_up(jet: &JetExit, env: &FlightEnv, model: &JetModel) -> Result<Breakup, ThrowError> {
-    let length = intact_length_m(jet, env, model)?;
-    let (p0, v0) = (jet.position_m, jet.velocity_m_s);
-    let g = require_positive("gravity (m/s²)", env.gravity_m_s2)?;
-    let speed = jet.relative_velocity_m_s().norm();
-    let relaxation = model.relaxation_over_breakup
-        * length
-        * (speed / RELAXATION_REFERENCE_SPEED_M_S).powf(model.relaxation_speed_exponent);
-    let phi0 = model.initial_drag_factor;
-    let at = |t: f64| {
+/// A jet's intact stream: the drag-free path from the nozzle to the breakup
+/// point, from which drops are released ([`IntactStream::release`]).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct IntactStream {
+    p0: Vector3<f64>,
+    v0: Vector3<f64>,
+    g: f64,
+    /// Intact length L_b, m.
+    length: f64,
+    /// Time the drag-free stream would reach the ground, s.
+    t_land: f64,
+    /// Path length to the ground, m.
+    full: f64,
+    relaxation: f64,
+    phi0: f64,
+}
+
+impl IntactStream {
+    /// The intact stream of `jet` (wind does not act on it: its drag per unit
+    /// mass is negligible). With `model` switched off its length is zero.
+    pub fn new(jet: &JetExit, env: &FlightEnv, model: &JetModel) -> Result<Self, ThrowError> {
+        let length = intact_length_m(jet, env, model)?;
+        let (p0, v0) = (jet.position_m, jet.velocity_m_s);
+        let g = require_positive("gravity (m/s²)", env.gravity_m_s2)?;
+        let speed = jet.relative_velocity_m_s().norm();
+        let relaxation = model.relaxation_over_breakup
+            * length
+            * (speed / RELAXATION_REFERENCE_SPEED_M_S).powf(model.relaxation_speed_exponent);
+        let (vh, vz) = (v0.xy().norm(), v0.z);
+        let t_land = (vz + (vz * vz + 2.0 * g * p0.z.max(0.0)).sqrt()) / g;
+        let full = arc_length(vh, vz, g, t_land);
+        if !(t_land.is_finite() && full.is_finite() && relaxation.is_finite()) {
+            return Err(ThrowError::InvalidInput {
+                field: "jet".to_string(),
+                detail: "has a velocity or height that is not a finite number".to_string(),
+            });
+        }
+        Ok(IntactStream {
+            p0,
+            v0,
+            g,
+            length,
+            t_land,
+            full,
+            relaxation,
+            phi0: model.initial_drag_factor,
+        })
+    }
+
+    /// Intact length L_b, m.
+    pub fn length_m(&self) -> f64 {
+        self.length
+    }
+
+    fn at(&self, t: f64) -> (Vector3<f64>, Vector3<f64>) {
         (
-            p0 + v0 * t - Vector3::z() * (0.5 * g * t * t),
-            v0 - Vector3::z() * (g * t),
+            self.p0 + self.v0 * t - Vector3::z() * (0.5 * self.g * t * t),
+            self.v0 - Vector3::z() * (self.g * t),
         )
-    };
-    let vh = v0.xy().norm();
-    let vz = v0.z;
-    let apex_until = |t: f64| {
-        let t_top = (vz / g).clamp(0.0, t);
-        p0.z + vz * t_top - 0.5 * g * t_top * t_top
-    };
-    if length <= 0.0 {
-        return Ok(Breakup {
-            point_m: p0,
-            velocity_m_s: v0,
-            time_s: 0.0,
-            intact_length_m: 0.0,
-            apex_m: p0.z,
-            landed_intact: false,
-            relaxation_m: relaxation,
-            initial_drag_factor: phi0,
-        });
     }
-    // Time at which the drag-free stream reaches the ground.
-    let t_land = (vz + (vz * vz + 2.0 * g * p0.z.max(0.0)).sqrt()) / g;
-    let full = arc_length(vh, vz, g, t_land);
-    if !(t_land.is_finite() && full.is_finite()) {
-        return Err(ThrowError::InvalidInput {
-            field: "jet".to_string(),
-            detail: "has a velocity or height that is not a finite number".to_string(),
-        });
+
+    fn apex_until(&self, t: f64) -> f64 {
+        let t_top = (self.v0.z / self.g).clamp(0.0, t);
+        self.p0.z + self.v0.z * t_top - 0.5 * self.g * t_top * t_top
     }
-    if full <= length {
-        let (point, velocity) = at(t_land);
-        return Ok(Breakup {
-            point_m: Vector3::new(point.x, point.y, 0.0),
+
+    /// The stream's state where drops leave it after `fraction` ∈ [0, 1] of
+    /// the intact length (1: the breakup point). A stream that reaches the
+    /// ground first hands over its landing point.
+    pub fn release(&self, fraction: f64) -> Result<Breakup, ThrowError> {
+        let s = self.length * fraction.clamp(0.0, 1.0);
+        let breakup = |point: Vector3<f64>, velocity, time_s, intact, landed| Breakup {
+            point_m: point,
             velocity_m_s: velocity,
-            time_s: t_land,
-            intact_length_m: full,
-            apex_m: apex_until(t_land),
-            landed_intact: true,
-            relaxation_m: relaxation,
-            initial_drag_factor: phi0,
-        });
+            time_s,
+            intact_length_m: intact,
+            apex_m: self.apex_until(time_s),
+            landed_intact: landed,
+            relaxation_m: self.relaxation,
+            initial_drag_factor: self.phi0,
+        };
+        if s <= 0.0 {
+            return Ok(breakup(self.p0, self.v0, 0.0, 0.0, false));
+        }
+        if self.full <= s {
+            let (point, velocity) = self.at(self.t_land);
+            let ground = Vector3::new(point.x, point.y, 0.0);
+            return Ok(breakup(ground, velocity, self.t_land, self.full, true));
+        }
+        let (vh, vz, g) = (self.v0.xy().norm(), self.v0.z, self.g);
+        let t = brent(
+            |t| arc_length(vh, vz, g, t) - s,
+            0.0,
+            self.t_land,
+            Tolerance {
+                x: 1e-12 * self.t_land.max(1e-9),
+                f: 1e-12 * s,
+                max_iter: 200,
+            },
+        )
+        .map_err(|e| ThrowError::InvalidInput {
+            field: "jet breakup".to_string(),
+            detail: format!(
+                "the release time between 0 and {:.3} s was not found: {e}",
+                self.t_land
+            ),
+        })?;
+        let (point, velocity) = self.at(t);
+        Ok(breakup(point, velocity, t, s, false))
     }
-    let t_b = brent(
-        |t| arc_length(vh, vz, g, t) - length,
-        0.0,
-        t_land,
-        Tolerance {
-            x: 1e-12 * t_land.max(1e-9),
-            f: 1e-12 * length,
-            max_iter: 200,
-        },
-    )
-    .map_err(|e| ThrowError::InvalidInput {
-        field: "jet breakup".to_string(),
-        detail: format!("the breakup time between 0 and {t_land:.3} s was not found: {e}"),
-    })?;
-    let (point, velocity) = at(t_b);
-    Ok(Breakup {
-        point_m: point,
-        velocity_m_s: velocity,
-        time_s: t_b,
-        intact_length_m: length,
-        apex_m: apex_until(t_b),
-        landed_intact: false,
-        relaxation_m: relaxation,
-        initial_drag_factor: phi0,
-    })
+}
+
+/// Fraction of the intact length after which a drop of `diameter_m` leaves
+/// the stream in a spray whose largest drop is `largest_m` (module docs: the
+/// stream sheds its small drops first, its largest at breakup).
+pub fn release_fraction(diameter_m: f64, largest_m: f64) -> f64 {
+    if largest_m > 0.0 && diameter_m.is_finite() {
+        (diameter_m / largest_m).clamp(0.0, 1.0)
+    } else {
+        1.0
+    }
+}
+
+/// Flies the intact stream of `jet` drag-free to its breakup point.
+pub fn break_up(jet: &JetExit, env: &FlightEnv, model: &JetModel) -> Result<Breakup, ThrowError> {
+    IntactStream::new(jet, env, model)?.release(1.0)
 }
 
 /// Drag factor φ at distance `s_m` from the breakup point, starting from

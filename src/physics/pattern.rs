@@ -45,7 +45,7 @@
 //! In wind, the wetted radius upwind, downwind and across the wind is read off
 //! the 2-D pattern along those three rays ([`wetted_radii_in_wind`]).
 
-use super::breakup::{break_up, Breakup};
+use super::breakup::{release_fraction, Breakup, IntactStream};
 use super::design::SpraySpec;
 use super::jet::JetExit;
 use super::spray::{breakup_coefficient, flight_for, flows, no_flow, Spectrum, DEFAULT_BINS};
@@ -313,8 +313,13 @@ pub fn nozzle_throw(
     let still = env.still();
     let flight = flight_for(spec, &opts.flight);
     let spectrum = Spectrum::for_jet(spec, jet, &still, opts.bins)?;
-    let breakup = break_up(jet, &still, &flight.jet)?;
-    let fly = |d: f64| fly_from_breakup(&breakup, d, &still, &flight);
+    let stream = IntactStream::new(jet, &still, &flight.jet)?;
+    let breakup = stream.release(1.0)?;
+    let largest_m = spectrum.largest_m;
+    let fly = |d: f64| {
+        let from = stream.release(release_fraction(d, largest_m))?;
+        fly_from_breakup(&from, d, &still, &flight)
+    };
     let edge_distances_m = spectrum
         .edges_m()
         .iter()
@@ -404,19 +409,23 @@ pub fn wetted_radius(
     let mut farthest = 0.0f64;
     for jet in flowing {
         let spectrum = Spectrum::for_jet(spec, jet, &still, DEFAULT_BINS)?;
-        let breakup = break_up(jet, &still, &flight.jet)?;
+        let stream = IntactStream::new(jet, &still, &flight.jet)?;
+        let fly = |d: f64| -> Result<f64, ThrowError> {
+            let from = stream.release(release_fraction(d, spectrum.largest_m))?;
+            Ok(fly_from_breakup(&from, d, &still, &flight)?.distance_m)
+        };
         let edges = spectrum.edges_m();
         let mut outer = None;
         for (bin, d_inner) in spectrum.bins.iter().zip(edges.iter()).rev() {
             let w_outer = match outer {
                 Some(w) => w,
                 None => {
-                    let w = fly_from_breakup(&breakup, bin.upper_m, &still, &flight)?.distance_m;
+                    let w = fly(bin.upper_m)?;
                     farthest = farthest.max(w);
                     w
                 }
             };
-            let w_inner = fly_from_breakup(&breakup, *d_inner, &still, &flight)?.distance_m;
+            let w_inner = fly(*d_inner)?;
             outer = Some(w_inner);
             if let Some(piece) = ring_of(w_inner, w_outer, jet.flow_m3_s * bin.volume_fraction) {
                 pieces.push(piece);
@@ -545,10 +554,14 @@ pub fn nozzle_paths(
 ) -> Result<NozzlePaths, ThrowError> {
     let still = env.still();
     let flight = &flight_for(spec, flight);
+    let path = |d: f64| {
+        let release = release_fraction(d, throw.spectrum.largest_m);
+        flight_path(jet, d, release, &still, flight, samples)
+    };
     Ok(NozzlePaths {
-        largest: flight_path(jet, throw.spectrum.largest_m, &still, flight, samples)?,
-        median: flight_path(jet, throw.median_drop_m, &still, flight, samples)?,
-        small: flight_path(jet, throw.small_drop_m, &still, flight, samples)?,
+        largest: path(throw.spectrum.largest_m)?,
+        median: path(throw.median_drop_m)?,
+        small: path(throw.small_drop_m)?,
     })
 }
 
@@ -756,12 +769,13 @@ pub fn windy_pattern(
                 _ => return Ok(Vec::new()),
             };
             let turned = jet.turned(2.0 * PI * k as f64 / n_az as f64);
-            let breakup = break_up(&turned, env, &flight.jet)?;
+            let stream = IntactStream::new(&turned, env, &flight.jet)?;
             spectrum
                 .edges_m()
                 .iter()
                 .map(|&d| {
-                    fly_from_breakup(&breakup, d, env, &flight)
+                    let from = stream.release(release_fraction(d, spectrum.largest_m))?;
+                    fly_from_breakup(&from, d, env, &flight)
                         .map(|l| Vector2::new(l.point_m.x, l.point_m.y))
                 })
                 .collect::<Result<Vec<Vector2<f64>>, ThrowError>>()

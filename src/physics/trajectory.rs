@@ -49,7 +49,7 @@
 //! crosses it, by Brent's method, so the landing point does not depend on where
 //! the steps happen to fall.
 
-use super::breakup::{break_up, drag_factor, Breakup, JetModel};
+use super::breakup::{break_up, drag_factor, Breakup, IntactStream, JetModel};
 use super::design::{Wind, GRAVITY_M_S2};
 use super::fluid::{AirProps, WaterProps};
 use super::jet::JetExit;
@@ -885,12 +885,15 @@ pub fn fly_jet(
     fly_after_breakup(&breakup, diameter_m, env, opts, None)
 }
 
-/// Flies one drop from a jet exit (as [`fly_jet`]) and samples its path at
-/// `samples` (≥ 2) instants evenly spaced in time, the first at the nozzle and
-/// the last on the ground; the intact stream is part of the path.
+/// Flies one drop from a jet exit, released from the stream after
+/// `release` (0–1) of its intact length ([`crate::physics::breakup::release_fraction`];
+/// 1: at breakup, as [`fly_jet`]), and samples its path at `samples` (≥ 2)
+/// instants evenly spaced in time, the first at the nozzle and the last on
+/// the ground; the intact stream is part of the path.
 pub fn flight_path(
     jet: &JetExit,
     diameter_m: f64,
+    release: f64,
     env: &FlightEnv,
     opts: &FlightOptions,
     samples: usize,
@@ -900,7 +903,7 @@ pub fn flight_path(
     }
     env.validate()?;
     opts.validate()?;
-    let breakup = break_up(jet, env, &opts.jet)?;
+    let breakup = IntactStream::new(jet, env, &opts.jet)?.release(release)?;
     let mut steps = Vec::new();
     let landing = fly_after_breakup(&breakup, diameter_m, env, opts, Some(&mut steps))?;
     let g = env.gravity_m_s2;
@@ -1111,7 +1114,7 @@ mod tests {
             nozzle_pressure_pa: 2.8e5,
             omega_rad_s: 0.0,
         };
-        let path = flight_path(&jet, 2e-3, &env(), &FlightOptions::default(), 25).unwrap();
+        let path = flight_path(&jet, 2e-3, 1.0, &env(), &FlightOptions::default(), 25).unwrap();
         assert_eq!(path.points.len(), 25);
         assert_eq!(path.points[0].position_m, jet.position_m);
         assert_eq!(path.points[24].position_m, path.landing.point_m);
