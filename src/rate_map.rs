@@ -198,7 +198,45 @@ pub enum MapCell {
     },
 }
 
+/// What colours a character of the map or its legend.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Ink {
+    /// A position on the rate scale, 0..=1.
+    Scale(f64),
+    /// Dry ground.
+    Dry,
+    /// A head.
+    Head,
+    /// The driest-quarter mark.
+    Driest,
+}
+
+impl Ink {
+    /// The ink's colour, RGB.
+    pub fn rgb(self) -> (u8, u8, u8) {
+        match self {
+            Ink::Scale(t) => scale_rgb(t),
+            Ink::Dry => DRY_RGB,
+            Ink::Head => HEAD_RGB,
+            Ink::Driest => DRIEST_RGB,
+        }
+    }
+}
+
 impl MapCell {
+    /// The cell's two characters with their inks.
+    pub fn inked(&self) -> [(char, Ink); 2] {
+        let [a, b] = self.glyphs();
+        match *self {
+            MapCell::Head => [(a, Ink::Head), (b, Ink::Head)],
+            MapCell::Dry => [(a, Ink::Dry), (b, Ink::Dry)],
+            MapCell::Wet { t, driest, .. } => [
+                (a, Ink::Scale(t)),
+                (b, if driest { Ink::Driest } else { Ink::Scale(t) }),
+            ],
+        }
+    }
+
     /// The cell's two characters.
     pub fn glyphs(&self) -> [char; 2] {
         match *self {
@@ -351,9 +389,20 @@ impl RateMap {
 
     /// The map as lines of text, two characters per cell.
     pub fn text_lines(&self) -> Vec<String> {
+        self.painted_lines(&plain)
+    }
+
+    /// The map as lines of text, each character passed through `paint` with
+    /// its ink (to colour it for a terminal or a page).
+    pub fn painted_lines(&self, paint: &dyn Fn(char, Ink) -> String) -> Vec<String> {
         self.rows
             .iter()
-            .map(|row| row.iter().flat_map(|c| c.glyphs()).collect())
+            .map(|row| {
+                row.iter()
+                    .flat_map(MapCell::inked)
+                    .map(|(c, ink)| paint(c, ink))
+                    .collect()
+            })
             .collect()
     }
 
@@ -383,28 +432,41 @@ impl RateMap {
 
     /// The legend as text lines for a report: the scale, then the marks.
     pub fn legend_text(&self, units: UnitSystem) -> Vec<String> {
+        self.painted_legend(units, &plain)
+    }
+
+    /// The legend with each glyph passed through `paint` with its ink.
+    pub fn painted_legend(
+        &self,
+        units: UnitSystem,
+        paint: &dyn Fn(char, Ink) -> String,
+    ) -> Vec<String> {
+        let pair = |g: [char; 2], ink: Ink| format!("{}{}", paint(g[0], ink), paint(g[1], ink));
         let scale: Vec<String> = self
             .scale_entries()
             .into_iter()
             .rev()
-            .map(|(g, _, label)| format!("{}{} {label}", g[0], g[1]))
+            .map(|(g, t, label)| format!("{} {label}", pair(g, Ink::Scale(t))))
             .collect();
-        let driest_glyph = level_glyph(self.scale.position(self.driest_quarter_max_mm_h));
+        let dt = self.scale.position(self.driest_quarter_max_mm_h);
         vec![
             format!("rate, {}:  {}", self.scale.unit, scale.join("  ")),
             format!(
-                "{}{} driest quarter (≤ {} {})   {}{} dry   {}{} head",
-                driest_glyph,
-                DRIEST_MARK,
+                "{}{} driest quarter (≤ {} {})   {} dry   {} head",
+                paint(level_glyph(dt), Ink::Scale(dt)),
+                paint(DRIEST_MARK, Ink::Driest),
                 self.driest_label(units),
                 self.scale.unit,
-                DRY_GLYPHS[0],
-                DRY_GLYPHS[1],
-                HEAD_GLYPHS[0],
-                HEAD_GLYPHS[1],
+                pair(DRY_GLYPHS, Ink::Dry),
+                pair(HEAD_GLYPHS, Ink::Head),
             ),
         ]
     }
+}
+
+/// A character as it is, without colour.
+fn plain(c: char, _: Ink) -> String {
+    c.to_string()
 }
 
 /// The run time that gives the driest quarter the mean depth, as a factor on

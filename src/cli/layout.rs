@@ -17,7 +17,7 @@ use crate::physics::layout::{
     DEFAULT_SURFACE_STORAGE_MM,
 };
 use crate::physics::pattern::{PatternOptions, M_S_TO_MM_H};
-use crate::rate_map::{self, runtime_factor_words, RateMap};
+use crate::rate_map::{self, runtime_factor_words, Ink, RateMap};
 use crate::units::{format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
 
 /// Options of the `layout` command beyond format and units.
@@ -33,6 +33,8 @@ pub struct LayoutArgs {
     pub target_depth_mm: Option<f64>,
     /// Width of the text rate map, characters.
     pub width: usize,
+    /// Colour the text rate map (24-bit terminal colours).
+    pub colour: bool,
 }
 
 #[derive(Debug, Serialize)]
@@ -184,6 +186,7 @@ pub fn layout_text(
     units: UnitSystem,
     width: usize,
     schedule: Option<&DepthSchedule>,
+    colour: bool,
 ) -> String {
     let q = |dim, v| format_quantity(dim, v, units);
     let rate = |mm_h: f64| q(D::ApplicationRate, mm_h / M_S_TO_MM_H);
@@ -247,13 +250,28 @@ pub fn layout_text(
         MAP_MAX_ROWS,
         units,
     );
-    for line in map.text_lines() {
+    let paint: &dyn Fn(char, Ink) -> String = if colour { &ansi } else { &|c, _| c.to_string() };
+    for line in map.painted_lines(paint) {
         s.push_str(&format!("  {line}\n"));
     }
-    for line in map.legend_text(units) {
+    for line in map.painted_legend(units, paint) {
         s.push_str(&format!("  {line}\n"));
     }
     s
+}
+
+/// A character in its ink's 24-bit terminal colour (heads bold).
+fn ansi(c: char, ink: Ink) -> String {
+    let (r, g, b) = ink.rgb();
+    let bold = if ink == Ink::Head { "1;" } else { "" };
+    format!("\x1b[{bold}38;2;{r};{g};{b}m{c}\x1b[0m")
+}
+
+/// Colour for the text report: on a terminal, unless `NO_COLOR` is set and
+/// not empty (no-color.org).
+pub fn colour_wanted() -> bool {
+    use std::io::IsTerminal;
+    std::io::stdout().is_terminal() && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty())
 }
 
 /// Run `layout`.
@@ -369,6 +387,7 @@ pub fn run(
                     units,
                     args.width,
                     schedule.as_ref(),
+                    args.colour,
                 )
             )?;
             if let Some(w) = &warning {
@@ -433,5 +452,15 @@ mod tests {
         assert_eq!(depth_schedule(10.0, 0.0, Some(1.2), None), None);
         assert_eq!(minutes(37.5), "38 min");
         assert_eq!(minutes(9.375), "9.4 min");
+    }
+
+    #[test]
+    fn colour_is_24_bit_and_heads_are_bold() {
+        assert_eq!(ansi('(', Ink::Head), "\x1b[1;38;2;235;70;70m(\x1b[0m");
+        let (r, g, b) = rate_map::scale_rgb(0.0);
+        assert_eq!(
+            ansi('▁', Ink::Scale(0.0)),
+            format!("\x1b[38;2;{r};{g};{b}m▁\x1b[0m")
+        );
     }
 }

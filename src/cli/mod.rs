@@ -334,6 +334,7 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
                 catch_cans,
                 target_depth_mm,
                 width: layout::terminal_width(),
+                colour: layout::colour_wanted(),
             };
             layout::run(&file, &args, o, out)
         }

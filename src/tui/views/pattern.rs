@@ -206,37 +206,18 @@ fn draw_map(app: &App, l: &LayoutResult, frame: &mut Frame, area: Rect) {
         usize::from(cells.height),
         app.units,
     );
+    let ink = |i: rate_map::Ink| match i {
+        rate_map::Ink::Head => paint(i.rgb()).add_modifier(Modifier::BOLD),
+        _ => paint(i.rgb()),
+    };
     let lines: Vec<Line> = map
         .rows
         .iter()
         .map(|row| {
             Line::from(
                 row.iter()
-                    .flat_map(|cell| {
-                        let [a, b] = cell.glyphs();
-                        let (sa, sb) = match *cell {
-                            MapCell::Head => {
-                                let s = paint(rate_map::HEAD_RGB).add_modifier(Modifier::BOLD);
-                                (s, s)
-                            }
-                            MapCell::Dry => (paint(rate_map::DRY_RGB), paint(rate_map::DRY_RGB)),
-                            MapCell::Wet { t: x, driest, .. } => {
-                                let s = paint(rate_map::scale_rgb(x));
-                                (
-                                    s,
-                                    if driest {
-                                        paint(rate_map::DRIEST_RGB)
-                                    } else {
-                                        s
-                                    },
-                                )
-                            }
-                        };
-                        [
-                            Span::styled(a.to_string(), sa),
-                            Span::styled(b.to_string(), sb),
-                        ]
-                    })
+                    .flat_map(MapCell::inked)
+                    .map(|(c, i)| Span::styled(c.to_string(), ink(i)))
                     .collect::<Vec<_>>(),
             )
         })
