@@ -419,6 +419,8 @@ fn layout_map_has_a_rate_legend_and_plain_words_for_the_run_time() {
         );
         assert!(text.contains("driest quarter (≤"), "{text}");
         assert!(text.contains("()"), "the heads are drawn: {text}");
+        // Piped, the report has no colour codes.
+        assert!(!text.contains('\x1b'), "{text}");
     }
     // The factor is 1/DU_lq (the key renamed from the old multiplier name).
     let file = scenario("lawn-rotor.ron");
