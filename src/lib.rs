@@ -6,6 +6,8 @@
 //! - [`scenario`]: the scenario file (RON with unit tags), its validation into a
 //!   [`physics::design::Design`], writing a design back, and safe saving.
 //! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
+//! - [`rate_map`]: the picture of water on the ground (rate scale, colours,
+//!   shading, driest quarter, heads), shared by the command line and the interface.
 //! - [`cli`]: the command line, a thin layer over the above.
 //! - [`tui`]: the terminal interface, the other thin layer (the only terminal code).
 //! - [`crash`]: the panic hook: terminal restored, crash report written.
@@ -27,6 +29,7 @@ pub mod audit;
 pub mod cli;
 pub mod crash;
 pub mod physics;
+pub mod rate_map;
 pub mod scenario;
 pub mod tui;
 pub mod units;

@@ -365,7 +365,7 @@ fn layout_reports_uniformity_and_the_grid() {
         "cu_percent",
         "du_lq_percent",
         "du_lh_percent",
-        "scheduling_multiplier",
+        "driest_quarter_runtime_factor",
         "spacing_percent_of_diameter",
         "grid",
     ] {
@@ -379,7 +379,7 @@ fn layout_reports_uniformity_and_the_grid() {
     );
     assert!((mean / expected - 1.0).abs() < 0.01, "{mean} vs {expected}");
     assert!(v["grid"]["rate_mm_h"].as_array().unwrap().len() > 10);
-    // Text: a depth map with a legend in mm/h; an intake rate below the mean warns.
+    // Text: a rate map with a legend in mm/h; an intake rate below the mean warns.
     bin()
         .args(["layout", file.to_str().unwrap(), "--intake", "5mm/h"])
         .assert()
@@ -408,6 +408,162 @@ fn layout_reports_uniformity_and_the_grid() {
         .args(["layout", file.to_str().unwrap(), "--spacing", "-3m"])
         .assert()
         .code(2);
+}
+
+/// Run `layout` with `args` after the file and return its standard output.
+fn layout_stdout(args: &[&str]) -> String {
+    let file = scenario("lawn-rotor.ron");
+    let out = bin().arg("layout").arg(&file).args(args).output().unwrap();
+    assert!(
+        out.status.success(),
+        "{args:?}: {}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    String::from_utf8(out.stdout).unwrap()
+}
+
+#[test]
+fn layout_map_has_a_rate_legend_and_plain_words_for_the_run_time() {
+    for (units, unit) in [("metric", "mm/h"), ("us", "in/h")] {
+        let text = layout_stdout(&["--units", units]);
+        // The legend is in the rate unit, not in bands of the mean.
+        assert!(text.contains(&format!("rate, {unit}:")), "{text}");
+        assert!(!text.contains("of the mean"), "{text}");
+        assert!(!text.contains("90–110"), "{text}");
+        assert!(!text.to_lowercase().contains("scheduling"), "{text}");
+        assert!(
+            text.contains("run time to give the driest quarter the mean depth: ×1."),
+            "{text}"
+        );
+        assert!(text.contains("driest quarter (≤"), "{text}");
+        assert!(text.contains("()"), "the heads are drawn: {text}");
+        // Piped, the report has no colour codes.
+        assert!(!text.contains('\x1b'), "{text}");
+    }
+    // The factor is 1/DU_lq (the key renamed from the old multiplier name).
+    let file = scenario("lawn-rotor.ron");
+    let v = json(&["layout", file.to_str().unwrap(), "--format", "json"]);
+    let du = v["du_lq_percent"].as_f64().unwrap();
+    let f = v["driest_quarter_runtime_factor"].as_f64().unwrap();
+    assert!((f - 100.0 / du).abs() < 1e-9, "{f} vs 100/{du}");
+    assert!(v.get("scheduling_multiplier").is_none());
+    assert!(v["target"].is_null());
+}
+
+#[test]
+fn layout_target_depth_gives_minutes_per_cycle() {
+    let file = scenario("lawn-rotor.ron");
+    let v = json(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--format",
+        "json",
+        "--target-depth",
+        "10mm",
+    ]);
+    // Run time t = depth · (1/DU_lq) / mean rate (the definition of the factor).
+    let mean = v["mean_rate_mm_h"].as_f64().unwrap();
+    let f = v["driest_quarter_runtime_factor"].as_f64().unwrap();
+    let t = &v["target"];
+    assert_eq!(t["depth_mm"].as_f64().unwrap(), 10.0);
+    let expected_s = 3600.0 * 10.0 * f / mean;
+    assert!((t["run_time_s"].as_f64().unwrap() - expected_s).abs() < 1e-6);
+    assert_eq!(t["cycles"].as_u64(), Some(1));
+    assert!(t["soak_s"].is_null());
+    // With a slow soil the run splits into cycles no longer than the intake allows.
+    let v = json(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--format",
+        "json",
+        "--target-depth",
+        "10mm",
+        "--intake",
+        "5mm/h",
+    ]);
+    let t = &v["target"];
+    let cycles = t["cycles"].as_u64().unwrap();
+    assert!(cycles > 1, "{t}");
+    let per = t["cycle_run_time_s"].as_f64().unwrap();
+    assert!((per * cycles as f64 - t["run_time_s"].as_f64().unwrap()).abs() < 1e-6);
+    assert!(t["soak_s"].as_f64().unwrap() > 0.0);
+    let text = layout_stdout(&[
+        "--target-depth",
+        "0.4in",
+        "--units",
+        "us",
+        "--intake",
+        "5mm/h",
+    ]);
+    assert!(
+        text.contains("to give the driest quarter 0.400 in:"),
+        "{text}"
+    );
+    assert!(text.contains("cycles of"), "{text}");
+    // A depth that is not a depth, or not above zero, is refused by name.
+    for bad in ["-3mm", "0mm", "10kPa", "deep"] {
+        bin()
+            .args(["layout", file.to_str().unwrap()])
+            .arg(format!("--target-depth={bad}"))
+            .assert()
+            .code(2)
+            .stderr(predicate::str::contains("--target-depth"));
+    }
+}
+
+#[test]
+fn layout_triangle_map_says_where_the_heads_stand() {
+    let text = layout_stdout(&["--pattern", "triangle", "--spacing", "9m"]);
+    assert!(!text.contains("heads at the corners"), "{text}");
+    assert!(
+        text.contains("heads at the two lower corners and the middle of the upper edge"),
+        "{text}"
+    );
+    // The top line of the map has its head in the middle; the bottom line at both ends.
+    let map: Vec<&str> = text
+        .lines()
+        .skip_while(|l| !l.starts_with("Application rate over"))
+        .skip(1)
+        .take_while(|l| !l.trim_start().starts_with("rate,"))
+        .map(str::trim)
+        .collect();
+    let (top, bottom) = (map[0], map[map.len() - 1]);
+    assert!(
+        bottom.starts_with("()") && bottom.ends_with("()"),
+        "{bottom}"
+    );
+    assert!(!top.starts_with("()") && !top.ends_with("()"), "{top}");
+    let mid = top.chars().count() / 2;
+    let head_at: Vec<char> = top.chars().skip(mid - 1).take(2).collect();
+    assert_eq!(head_at, ['(', ')'], "{top}");
+}
+
+#[test]
+fn layout_csv_has_no_float_noise() {
+    // 12 m spacing, 40 cells: dx = 0.3 m, where plain printing shows 0.30000000000000004-like noise.
+    for (units, rate_decimals) in [("metric", 3), ("us", 4)] {
+        let csv = layout_stdout(&["--spacing", "12m", "--format", "csv", "--units", units]);
+        let mut lines = csv.lines();
+        let header: Vec<&str> = lines.next().unwrap().split(',').collect();
+        for h in header.iter().skip(1) {
+            let decimals = h.split('.').nth(1).map_or(0, str::len);
+            assert_eq!(decimals, 3, "header {h}");
+            h.parse::<f64>().unwrap();
+        }
+        for line in lines {
+            let fields: Vec<&str> = line.split(',').collect();
+            assert_eq!(fields[0].split('.').nth(1).map_or(0, str::len), 3, "{line}");
+            for f in &fields[1..] {
+                assert_eq!(
+                    f.split('.').nth(1).map_or(0, str::len),
+                    rate_decimals,
+                    "{f}"
+                );
+                assert!(f.parse::<f64>().unwrap() >= 0.0);
+            }
+        }
+        assert!(!csv.contains("0000000"), "{csv}");
+    }
 }
 
 #[test]

@@ -1,5 +1,6 @@
-//! `spinwright layout`: overlap of heads in a layout, CU and DU, depth map;
-//! and the same figures for a measured catch-can test.
+//! `spinwright layout`: overlap of heads in a layout, CU and DU, the run time
+//! the driest quarter needs, the rate map; and the same figures for a
+//! measured catch-can test.
 
 use std::io::Write;
 use std::path::Path;
@@ -16,12 +17,8 @@ use crate::physics::layout::{
     DEFAULT_SURFACE_STORAGE_MM,
 };
 use crate::physics::pattern::{PatternOptions, M_S_TO_MM_H};
-use crate::units::{
-    format_number, format_quantity, to_display, unit_label, Dimension as D, UnitSystem,
-};
-
-/// Shading from dry to the wettest cell, for the text depth map.
-pub const SHADES: [char; 6] = [' ', '·', '░', '▒', '▓', '█'];
+use crate::rate_map::{self, runtime_factor_words, Ink, RateMap};
+use crate::units::{format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
 
 /// Options of the `layout` command beyond format and units.
 #[derive(Debug, Clone)]
@@ -32,8 +29,12 @@ pub struct LayoutArgs {
     pub intake_mm_h: Option<f64>,
     /// Measured catch-can CSV to rate beside the model.
     pub catch_cans: Option<std::path::PathBuf>,
-    /// Width of the text depth map, characters.
+    /// Depth to give the driest quarter each watering, mm (for the run time).
+    pub target_depth_mm: Option<f64>,
+    /// Width of the text rate map, characters.
     pub width: usize,
+    /// Colour the text rate map (24-bit terminal colours).
+    pub colour: bool,
 }
 
 #[derive(Debug, Serialize)]
@@ -46,7 +47,7 @@ struct LayoutJson {
     cu_percent: f64,
     du_lq_percent: f64,
     du_lh_percent: f64,
-    scheduling_multiplier: Option<f64>,
+    driest_quarter_runtime_factor: Option<f64>,
     spacing_percent_of_diameter: f64,
     wetted_radius_m: f64,
     dry_percent: f64,
@@ -54,7 +55,17 @@ struct LayoutJson {
     cu_clamped: bool,
     grid: GridJson,
     intake_warning: Option<String>,
+    target: Option<TargetJson>,
     measured: Option<MeasuredJson>,
+}
+
+#[derive(Debug, Serialize)]
+struct TargetJson {
+    depth_mm: f64,
+    run_time_s: f64,
+    cycles: u32,
+    cycle_run_time_s: f64,
+    soak_s: Option<f64>,
 }
 
 #[derive(Debug, Serialize)]
@@ -76,75 +87,68 @@ struct MeasuredJson {
     overlap_du_lq_percent: Option<f64>,
 }
 
-/// The depth map as lines of shading characters, at most `width` wide
-/// (two characters per cell across, so cells look square), wettest row on top.
-pub fn depth_map(result: &LayoutResult, width: usize) -> Vec<String> {
-    let rows = &result.grid.rate_mm_h;
-    let nx = rows.first().map_or(0, Vec::len);
-    if nx == 0 {
-        return Vec::new();
-    }
-    let (min, max) = grid_range(result);
-    let cols = (width.min(MAP_MAX_WIDTH) / 2).clamp(1, nx);
-    let ny = rows.len();
-    // Each output row covers as many metres as each two-character column.
-    let across_m = nx as f64 * result.grid.dx_m;
-    let down_m = ny as f64 * result.grid.dy_m;
-    let out_rows = ((cols as f64 * down_m / across_m).round() as usize).clamp(1, 4 * ny);
-    (0..out_rows)
-        .rev()
-        .map(|r| {
-            let iy = (r * ny / out_rows).min(ny - 1);
-            (0..cols)
-                .map(|c| {
-                    let ix = (c * nx / cols).min(nx - 1);
-                    let v = rows
-                        .get(iy)
-                        .and_then(|row| row.get(ix))
-                        .copied()
-                        .unwrap_or(0.0);
-                    let level = if max > min {
-                        (((v - min) / (max - min)) * (SHADES.len() - 1) as f64).round() as usize
-                    } else {
-                        SHADES.len() - 1
-                    };
-                    let ch = SHADES.get(level).or(SHADES.last()).copied().unwrap_or(' ');
-                    format!("{ch}{ch}")
-                })
-                .collect()
-        })
-        .collect()
-}
-
-/// Widest text depth map, characters (wider maps get hard to read).
+/// Widest text rate map, characters (wider maps get hard to read).
 pub const MAP_MAX_WIDTH: usize = 64;
 
-/// Lowest and highest rate on the catch grid, mm/h.
-fn grid_range(result: &LayoutResult) -> (f64, f64) {
-    let rates = result.grid.rate_mm_h.iter().flatten().copied();
-    let min = rates.clone().fold(f64::INFINITY, f64::min);
-    let max = rates.fold(0.0, f64::max);
-    (if min.is_finite() { min } else { 0.0 }, max)
+/// Most lines of the text rate map.
+const MAP_MAX_ROWS: usize = 48;
+
+/// How long to water so that the driest quarter gets a target depth.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct DepthSchedule {
+    /// The target depth for the driest quarter, mm.
+    pub depth_mm: f64,
+    /// Run time in all, min.
+    pub total_min: f64,
+    /// Number of cycles (1 unless the soil intake asks for cycle and soak).
+    pub cycles: u32,
+    /// Run time of each cycle, min.
+    pub cycle_min: f64,
+    /// Soak between cycles, min (`None` with one cycle).
+    pub soak_min: Option<f64>,
 }
 
-/// The legend of the depth map: each shade and its range in the display
-/// unit. Shades run from the driest cell to the wettest, for contrast.
-pub fn legend(result: &LayoutResult, units: UnitSystem) -> String {
-    let (min, max) = grid_range(result);
-    let step = (max - min) / (SHADES.len() - 1) as f64;
-    let label = unit_label(D::ApplicationRate, units);
-    let show = |mm_h: f64| format_number(to_display(D::ApplicationRate, mm_h / M_S_TO_MM_H, units));
-    SHADES
-        .iter()
-        .enumerate()
-        .map(|(k, ch)| {
-            let lo = min + (k as f64 - 0.5).max(0.0) * step;
-            let hi = (min + (k as f64 + 0.5) * step).min(max);
-            format!("[{ch}{ch}] {}–{}", show(lo), show(hi))
-        })
-        .collect::<Vec<_>>()
-        .join("  ")
-        + &format!(" {label}")
+/// The run time that puts `depth_mm` on the driest quarter at `mean_rate_mm_h`
+/// with run-time factor `factor` (1/DU_lq), split into cycles of at most
+/// `max_cycle_min` when the soil intake asks for it. `None` when no run time
+/// is enough (no factor, or no water).
+pub fn depth_schedule(
+    depth_mm: f64,
+    mean_rate_mm_h: f64,
+    factor: Option<f64>,
+    cycle_soak: Option<(f64, f64)>,
+) -> Option<DepthSchedule> {
+    let factor = factor.filter(|f| f.is_finite() && *f > 0.0)?;
+    if !(mean_rate_mm_h.is_finite() && mean_rate_mm_h > 0.0 && depth_mm.is_finite()) {
+        return None;
+    }
+    let total_min = 60.0 * depth_mm * factor / mean_rate_mm_h;
+    if !total_min.is_finite() {
+        return None;
+    }
+    let (cycles, soak_min) = match cycle_soak {
+        Some((run, soak)) if run > 0.0 && total_min > run => (
+            ((total_min / run).ceil()).min(f64::from(u32::MAX)) as u32,
+            Some(soak),
+        ),
+        _ => (1, None),
+    };
+    Some(DepthSchedule {
+        depth_mm,
+        total_min,
+        cycles,
+        cycle_min: total_min / f64::from(cycles.max(1)),
+        soak_min,
+    })
+}
+
+/// Minutes for a person: whole minutes from 10 up, one decimal below.
+fn minutes(m: f64) -> String {
+    if m >= 10.0 {
+        format!("{m:.0} min")
+    } else {
+        format!("{m:.1} min")
+    }
 }
 
 fn measured_json(report: &AuditReport, source: &str) -> MeasuredJson {
@@ -160,24 +164,32 @@ fn measured_json(report: &AuditReport, source: &str) -> MeasuredJson {
     }
 }
 
-fn intake_warning(result: &LayoutResult, intake: Option<f64>) -> Result<Option<String>, CliError> {
+/// The intake warning and the cycle-and-soak (run, soak minutes) it suggests.
+type IntakeAdvice = (Option<String>, Option<(f64, f64)>);
+
+fn intake_warning(result: &LayoutResult, intake: Option<f64>) -> Result<IntakeAdvice, CliError> {
     match intake {
-        None => Ok(None),
+        None => Ok((None, None)),
         Some(i) => match intake_check(result.mean_rate_mm_h, i, DEFAULT_SURFACE_STORAGE_MM) {
-            Ok(IntakeVerdict::WithinIntake) => Ok(None),
-            Ok(IntakeVerdict::Exceeds { warning, .. }) => Ok(Some(warning)),
+            Ok(IntakeVerdict::WithinIntake) => Ok((None, None)),
+            Ok(IntakeVerdict::Exceeds { warning, cycle }) => {
+                Ok((Some(warning), Some((cycle.run_min, cycle.soak_min))))
+            }
             Err(e) => Err(CliError::Usage(format!("--intake: {e}"))),
         },
     }
 }
 
-/// The text report of a layout.
+/// The text report of a layout; `schedule` is the run time for a target
+/// depth when one was asked for.
 pub fn layout_text(
     design: &Design,
     result: &LayoutResult,
     wetted_m: f64,
     units: UnitSystem,
     width: usize,
+    schedule: Option<&DepthSchedule>,
+    colour: bool,
 ) -> String {
     let q = |dim, v| format_quantity(dim, v, units);
     let rate = |mm_h: f64| q(D::ApplicationRate, mm_h / M_S_TO_MM_H);
@@ -193,13 +205,30 @@ pub fn layout_text(
         q(D::Length, wetted_m)
     ));
     s.push_str(&format!(
-        "  CU {:.1} %   DU low quarter {:.1} %   DU low half {:.1} %   scheduling multiplier {}\n",
-        u.cu_percent,
-        u.du_lq_percent,
-        u.du_lh_percent,
-        u.scheduling_multiplier
-            .map_or("—".into(), |m| format!("{m:.2}"))
+        "  CU {:.1} %   DU low quarter {:.1} %   DU low half {:.1} %\n",
+        u.cu_percent, u.du_lq_percent, u.du_lh_percent,
     ));
+    s.push_str(&format!(
+        "  run time to give the driest quarter the mean depth: {}\n",
+        runtime_factor_words(u.driest_quarter_runtime_factor)
+    ));
+    if let Some(d) = schedule {
+        let depth = q(D::SmallLength, d.depth_mm / 1000.0);
+        if d.cycles > 1 {
+            s.push_str(&format!(
+                "  to give the driest quarter {depth}: {} in all, {} cycles of {} with {} soaks\n",
+                minutes(d.total_min),
+                d.cycles,
+                minutes(d.cycle_min),
+                minutes(d.soak_min.unwrap_or(0.0)),
+            ));
+        } else {
+            s.push_str(&format!(
+                "  to give the driest quarter {depth}: one cycle of {}\n",
+                minutes(d.cycle_min)
+            ));
+        }
+    }
     s.push_str(&format!(
         "  mean application rate {} (Q/(S·L) = {}); range {} to {}\n",
         rate(result.mean_rate_mm_h),
@@ -233,12 +262,35 @@ pub fn layout_text(
         ));
     }
     s.push('\n');
-    s.push_str("Depth map of one repeating cell (heads at the corners)\n");
-    for line in depth_map(result, width.saturating_sub(2)) {
+    s.push_str(&format!("{}\n", rate_map::title(&result.layout)));
+    let map = RateMap::new(
+        result,
+        width.saturating_sub(2).min(MAP_MAX_WIDTH) / 2,
+        MAP_MAX_ROWS,
+        units,
+    );
+    let paint: &dyn Fn(char, Ink) -> String = if colour { &ansi } else { &|c, _| c.to_string() };
+    for line in map.painted_lines(paint) {
         s.push_str(&format!("  {line}\n"));
     }
-    s.push_str(&format!("  {}\n", legend(result, units)));
+    for line in map.painted_legend(units, paint) {
+        s.push_str(&format!("  {line}\n"));
+    }
     s
+}
+
+/// A character in its ink's 24-bit terminal colour (heads bold).
+fn ansi(c: char, ink: Ink) -> String {
+    let (r, g, b) = ink.rgb();
+    let bold = if ink == Ink::Head { "1;" } else { "" };
+    format!("\x1b[{bold}38;2;{r};{g};{b}m{c}\x1b[0m")
+}
+
+/// Colour for the text report: on a terminal, unless `NO_COLOR` is set and
+/// not empty (no-color.org).
+pub fn colour_wanted() -> bool {
+    use std::io::IsTerminal;
+    std::io::stdout().is_terminal() && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty())
 }
 
 /// Run `layout`.
@@ -263,7 +315,15 @@ pub fn run(
     let head = head_throw(&design, &report, &opts, None).map_err(bad)?;
     let result =
         layout_overlap(&design, &head, &layout, &opts, &OverlapOptions::default()).map_err(bad)?;
-    let warning = intake_warning(&result, args.intake_mm_h)?;
+    let (warning, cycle_soak) = intake_warning(&result, args.intake_mm_h)?;
+    let schedule = args.target_depth_mm.and_then(|d| {
+        depth_schedule(
+            d,
+            result.mean_rate_mm_h,
+            result.uniformity.driest_quarter_runtime_factor,
+            cycle_soak,
+        )
+    });
     let measured = match &args.catch_cans {
         Some(csv_path) => {
             let data = read_catch_cans(csv_path).map_err(|e| CliError::Usage(e.to_string()))?;
@@ -286,7 +346,7 @@ pub fn run(
                 cu_percent: u.cu_percent,
                 du_lq_percent: u.du_lq_percent,
                 du_lh_percent: u.du_lh_percent,
-                scheduling_multiplier: u.scheduling_multiplier,
+                driest_quarter_runtime_factor: u.driest_quarter_runtime_factor,
                 spacing_percent_of_diameter: result.spacing_percent_of_diameter,
                 wetted_radius_m: head.throw.wetted_radius_m,
                 dry_percent: result.dry_percent,
@@ -298,6 +358,13 @@ pub fn run(
                     rate_mm_h: result.grid.rate_mm_h.clone(),
                 },
                 intake_warning: warning,
+                target: schedule.map(|d| TargetJson {
+                    depth_mm: d.depth_mm,
+                    run_time_s: 60.0 * d.total_min,
+                    cycles: d.cycles,
+                    cycle_run_time_s: 60.0 * d.cycle_min,
+                    soak_s: d.soak_min.map(|m| 60.0 * m),
+                }),
                 measured: measured.as_ref().map(|(r, src)| measured_json(r, src)),
             };
             serde_json::to_writer_pretty(&mut *out, &json).map_err(std::io::Error::from)?;
@@ -305,21 +372,28 @@ pub fn run(
         }
         Format::Csv => {
             let mut w = csv::Writer::from_writer(out);
-            let dim = |v: f64| to_display(D::Length, v, units);
+            // Fixed precision: a millimetre (a thousandth of a foot) and a
+            // thousandth of a mm/h (a ten-thousandth of an in/h), no float noise.
+            let dim = |v: f64| format!("{:.3}", to_display(D::Length, v, units));
+            let rate_decimals = match units {
+                UnitSystem::Metric => 3,
+                UnitSystem::Us => 4,
+            };
             let header: Vec<String> =
                 std::iter::once(format!("y \\ x {}", unit_label(D::Length, units)))
                     .chain(
                         (0..result.grid.rate_mm_h.first().map_or(0, Vec::len))
-                            .map(|ix| format!("{}", dim((ix as f64 + 0.5) * result.grid.dx_m))),
+                            .map(|ix| dim((ix as f64 + 0.5) * result.grid.dx_m)),
                     )
                     .collect();
             w.write_record(&header)?;
             for (iy, row) in result.grid.rate_mm_h.iter().enumerate() {
-                let cells =
-                    std::iter::once(format!("{}", dim((iy as f64 + 0.5) * result.grid.dy_m)))
-                        .chain(row.iter().map(|r| {
-                            format!("{}", to_display(D::ApplicationRate, r / M_S_TO_MM_H, units))
-                        }));
+                let cells = std::iter::once(dim((iy as f64 + 0.5) * result.grid.dy_m)).chain(
+                    row.iter().map(|r| {
+                        let v = to_display(D::ApplicationRate, r / M_S_TO_MM_H, units);
+                        format!("{v:.rate_decimals$}")
+                    }),
+                );
                 w.write_record(cells)?;
             }
             w.flush()?;
@@ -333,7 +407,9 @@ pub fn run(
                     &result,
                     head.throw.wetted_radius_m,
                     units,
-                    args.width
+                    args.width,
+                    schedule.as_ref(),
+                    args.colour,
                 )
             )?;
             if let Some(w) = &warning {
@@ -361,7 +437,7 @@ pub fn run(
     Ok(Outcome::Done)
 }
 
-/// Width for the depth map: the terminal's, else $COLUMNS, else 80.
+/// Width for the rate map: the terminal's, else $COLUMNS, else 80.
 pub fn terminal_width() -> usize {
     use std::io::IsTerminal;
     if std::io::stdout().is_terminal() {
@@ -374,4 +450,39 @@ pub fn terminal_width() -> usize {
         .and_then(|c| c.parse().ok())
         .filter(|&w| w >= 20)
         .unwrap_or(80)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn run_time_for_a_target_depth() {
+        // 10 mm on the driest quarter at 20 mm/h with DU_lq 80 % (factor 1.25):
+        // 10 · 1.25 / 20 h = 37.5 min (the factor's definition, model.md M9).
+        let one = depth_schedule(10.0, 20.0, Some(1.25), None).unwrap();
+        assert!((one.total_min - 37.5).abs() < 1e-12);
+        assert_eq!(one.cycles, 1);
+        assert_eq!(one.soak_min, None);
+        // Cycles of at most 10 min: four of 9.375 min, 15 min soaks.
+        let split = depth_schedule(10.0, 20.0, Some(1.25), Some((10.0, 15.0))).unwrap();
+        assert_eq!(split.cycles, 4);
+        assert!((split.cycle_min - 9.375).abs() < 1e-12);
+        assert_eq!(split.soak_min, Some(15.0));
+        // No water for the driest quarter, or none at all: no run time is enough.
+        assert_eq!(depth_schedule(10.0, 20.0, None, None), None);
+        assert_eq!(depth_schedule(10.0, 0.0, Some(1.2), None), None);
+        assert_eq!(minutes(37.5), "38 min");
+        assert_eq!(minutes(9.375), "9.4 min");
+    }
+
+    #[test]
+    fn colour_is_24_bit_and_heads_are_bold() {
+        assert_eq!(ansi('(', Ink::Head), "\x1b[1;38;2;235;70;70m(\x1b[0m");
+        let (r, g, b) = rate_map::scale_rgb(0.0);
+        assert_eq!(
+            ansi('▁', Ink::Scale(0.0)),
+            format!("\x1b[38;2;{r};{g};{b}m▁\x1b[0m")
+        );
+    }
 }

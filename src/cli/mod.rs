@@ -69,7 +69,7 @@ pub enum Command {
         #[command(flatten)]
         out: Output,
     },
-    /// Overlap of heads in a layout: CU, DU, application rate, depth map.
+    /// Overlap of heads in a layout: CU, DU, application rate, rate map.
     Layout {
         /// The scenario file.
         file: PathBuf,
@@ -88,6 +88,9 @@ pub enum Command {
         /// Measured catch-can test (CSV) to rate beside the model.
         #[arg(long, value_name = "CSV")]
         catch_cans: Option<PathBuf>,
+        /// Depth the driest quarter should get each watering (e.g. 12mm, 0.5in): the run time and cycles for it.
+        #[arg(long, value_name = "DEPTH")]
+        target_depth: Option<String>,
         /// Format and units of the report.
         #[command(flatten)]
         out: Output,
@@ -307,8 +310,21 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             rows,
             intake,
             catch_cans,
+            target_depth,
             out: o,
         } => {
+            let target_depth_mm = match target_depth {
+                Some(t) => {
+                    let m = quantity("--target-depth", crate::units::Dimension::SmallLength, &t)?;
+                    if m <= 0.0 {
+                        return Err(CliError::Usage(format!(
+                            "--target-depth {t}: a depth must be more than zero"
+                        )));
+                    }
+                    Some(1000.0 * m)
+                }
+                None => None,
+            };
             let args = layout::LayoutArgs {
                 layout: layout_override(pattern, spacing.as_deref(), rows.as_deref())?,
                 intake_mm_h: intake
@@ -316,7 +332,9 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
                     .transpose()?
                     .map(|r| r * crate::physics::pattern::M_S_TO_MM_H),
                 catch_cans,
+                target_depth_mm,
                 width: layout::terminal_width(),
+                colour: layout::colour_wanted(),
             };
             layout::run(&file, &args, o, out)
         }

@@ -17,8 +17,8 @@
 //!   DU_lq = 100 · mean(lowest k) / x̄ with **k = n/4 rounded to the nearest
 //!   whole catch, halves rounded up, at least one** (n = 4 → 1, 10 → 3, 15 → 4).
 //! - Low-half DU_lh the same way with k = n/2 rounded (halves up), at least one.
-//! - Scheduling multiplier SM = 1 / DU_lq (DU as a fraction): the factor on the
-//!   run time that brings the driest quarter up to the target depth ("the total
+//! - Run-time factor for the driest quarter 1 / DU_lq (DU as a fraction): the
+//!   factor on the run time that brings the driest quarter up to the target depth ("the total
 //!   amount to be applied would be the desired amount divided by the DU",
 //!   Wikipedia, "Distribution uniformity"; the Irrigation Association's
 //!   auditor training uses the same 1/DU_lq form, from memory). Other manuals
@@ -188,8 +188,9 @@ pub struct UniformityStats {
     pub low_quarter_count: usize,
     /// Catches counted in the low half.
     pub low_half_count: usize,
-    /// Scheduling multiplier 1/DU_lq; `None` when DU_lq is 0 (no run time is enough).
-    pub scheduling_multiplier: Option<f64>,
+    /// Run-time factor 1/DU_lq that gives the driest quarter the mean depth;
+    /// `None` when DU_lq is 0 (no run time is enough).
+    pub driest_quarter_runtime_factor: Option<f64>,
 }
 
 /// Number of catches in the lowest `fraction` of `n`: n·fraction rounded to
@@ -265,8 +266,9 @@ pub fn du_low_half_percent(catches: &[f64]) -> Result<f64, ThrowError> {
     Ok(du_of(&sorted, mean, 0.5).0)
 }
 
-/// Scheduling multiplier 1/DU_lq from DU_lq in %; `None` when DU_lq ≤ 0.
-pub fn scheduling_multiplier(du_lq_percent: f64) -> Option<f64> {
+/// Run-time factor 1/DU_lq that gives the driest quarter the mean depth,
+/// from DU_lq in %; `None` when DU_lq ≤ 0.
+pub fn driest_quarter_runtime_factor(du_lq_percent: f64) -> Option<f64> {
     (du_lq_percent.is_finite() && du_lq_percent > 0.0).then(|| 100.0 / du_lq_percent)
 }
 
@@ -290,7 +292,7 @@ pub fn uniformity(catches: &[f64]) -> Result<UniformityStats, ThrowError> {
         cv: rel_var.sqrt(),
         low_quarter_count: k_q,
         low_half_count: k_h,
-        scheduling_multiplier: scheduling_multiplier(du_lq),
+        driest_quarter_runtime_factor: driest_quarter_runtime_factor(du_lq),
     })
 }
 
@@ -341,7 +343,7 @@ fn all_dry(count: usize) -> UniformityStats {
         cv: 0.0,
         low_quarter_count: low_count(count, 0.25),
         low_half_count: low_count(count, 0.5),
-        scheduling_multiplier: None,
+        driest_quarter_runtime_factor: None,
     }
 }
 
@@ -372,6 +374,9 @@ pub struct LayoutResult {
     pub rows_percent_of_diameter: f64,
     /// Share of the catch points that stay dry (below the wetting threshold), %.
     pub dry_percent: f64,
+    /// The wetting threshold of the head (model.md M8), mm/h: a catch point
+    /// below it counts as dry.
+    pub wetting_threshold_mm_h: f64,
     /// True when every catch point gets water: the heads' patterns meet.
     pub heads_meet: bool,
     /// The catch grid.
@@ -488,6 +493,7 @@ pub fn overlap(
         spacing_percent_of_diameter: 100.0 * s / (2.0 * wetted),
         rows_percent_of_diameter: 100.0 * l / (2.0 * wetted),
         dry_percent,
+        wetting_threshold_mm_h: threshold,
         heads_meet: dry == 0,
         grid: CatchGrid {
             dx_m: dx,
@@ -571,7 +577,7 @@ mod tests {
         assert!((s.cu_percent - 84.21).abs() < 0.005);
         assert!((s.du_lq_percent - 73.68).abs() < 0.005);
         assert_eq!(s.low_quarter_count, 1);
-        assert!((s.scheduling_multiplier.unwrap() - 1.0 / 0.7368).abs() < 1e-3);
+        assert!((s.driest_quarter_runtime_factor.unwrap() - 1.0 / 0.7368).abs() < 1e-3);
     }
 
     #[test]

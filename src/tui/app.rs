@@ -78,7 +78,7 @@ pub enum View {
     Balance,
     /// Side view of the trajectories.
     Throw,
-    /// Radial profile and the layout's depth map.
+    /// Radial profile and the layout's rate map.
     Pattern,
     /// Measured against expected.
     Field,

@@ -501,10 +501,113 @@ fn without_colour_nothing_is_coloured_and_the_map_still_reads() {
         assert_eq!(cell.fg, Color::Reset, "{:?}", cell);
         assert_eq!(cell.bg, Color::Reset, "{:?}", cell);
     }
-    // The depth map and its legend use shading characters.
+    // The rate map and its legend tell the rate by water levels, in mm/h,
+    // with no bands of the mean.
     let text = format!("{}", term.backend());
-    assert!(text.contains("▒▒ 90–110 %"), "{text}");
-    assert!(text.contains('░') || text.contains('▓'), "{text}");
+    assert!(text.contains("rate mm/h"), "{text}");
+    assert!(
+        !text.contains("of the mean") && !text.contains("90–110 %"),
+        "{text}"
+    );
+    assert!(text.contains(crate::rate_map::DRIEST_MARK), "{text}");
+    assert!(text.contains("() head"), "{text}");
+    let levels = crate::rate_map::LEVEL_GLYPHS
+        .iter()
+        .filter(|g| text.contains(**g))
+        .count();
+    assert!(levels >= 3, "{levels} levels: {text}");
+}
+
+/// The screen as text, then its colours: each cell of the rate map as the
+/// nearest of ten steps of the colour scale (0 low … 9 high), `H` a head,
+/// `d` dry ground, `q` the driest-quarter mark; other cells blank.
+fn screen_with_colours(app: &mut App, w: u16, h: u16) -> String {
+    use crate::rate_map::{scale_rgb, DRIEST_RGB, DRY_RGB, HEAD_RGB};
+    use ratatui::style::Color;
+    app.event(&Event::Resize(w, h));
+    let mut term = Terminal::new(TestBackend::new(w, h)).expect("test terminal");
+    term.draw(|f| draw(app, f)).expect("draw");
+    let steps: Vec<(u8, u8, u8)> = (0..10).map(|k| scale_rgb(f64::from(k) / 9.0)).collect();
+    let buf = term.backend().buffer();
+    let mut plane = String::new();
+    for y in 0..h {
+        let mut line = String::new();
+        for x in 0..w {
+            let c = match buf[(x, y)].fg {
+                Color::Rgb(r, g, b) if (r, g, b) == HEAD_RGB => 'H',
+                Color::Rgb(r, g, b) if (r, g, b) == DRY_RGB => 'd',
+                Color::Rgb(r, g, b) if (r, g, b) == DRIEST_RGB => 'q',
+                Color::Rgb(r, g, b) => {
+                    let d = |s: &(u8, u8, u8)| {
+                        let e = |p: u8, q: u8| (i32::from(p) - i32::from(q)).pow(2);
+                        e(s.0, r) + e(s.1, g) + e(s.2, b)
+                    };
+                    let k = (0..10).min_by_key(|&k| d(&steps[k])).unwrap();
+                    char::from(b'0' + k as u8)
+                }
+                _ => ' ',
+            };
+            line.push(c);
+        }
+        plane.push_str(line.trim_end());
+        plane.push('\n');
+    }
+    format!(
+        "{}\n--- colours of the rate map ---\n{plane}",
+        term.backend()
+    )
+}
+
+#[test]
+fn the_rate_map_in_colour_and_without_at_both_sizes() {
+    use crate::physics::design::Layout;
+    use ratatui::style::Color;
+    let mut a = app();
+    a.event(&key(KeyCode::Char('3')));
+    for (w, h) in [(80u16, 24u16), (160, 48)] {
+        insta::assert_snapshot!(
+            format!("rate_map_colour_{w}x{h}"),
+            screen_with_colours(&mut a, w, h)
+        );
+    }
+    // A triangle: one head in the middle of the upper edge.
+    select(&mut a, Field::LayoutKind);
+    for _ in 0..4 {
+        if matches!(a.design.layout, Some(Layout::Triangle { .. })) {
+            break;
+        }
+        a.event(&key(KeyCode::Right));
+    }
+    assert!(matches!(a.design.layout, Some(Layout::Triangle { .. })));
+    assert!(a.settle(SETTLE));
+    insta::assert_snapshot!(
+        "rate_map_triangle_colour_160x48",
+        screen_with_colours(&mut a, 160, 48)
+    );
+    let mut b = app();
+    b.theme = Theme { no_color: true };
+    b.event(&key(KeyCode::Char('3')));
+    for units in [UnitSystem::Metric, UnitSystem::Us] {
+        b.set_units(units);
+        for (w, h) in [(80u16, 24u16), (160, 48)] {
+            let shown = screen_with_colours(&mut b, w, h);
+            let (text, colours) = shown.split_once("--- colours").unwrap();
+            assert!(colours.lines().skip(1).all(str::is_empty), "{colours}");
+            let unit = match units {
+                UnitSystem::Metric => "metric",
+                UnitSystem::Us => "us",
+            };
+            let mut term = Terminal::new(TestBackend::new(w, h)).unwrap();
+            term.draw(|f| draw(&b, f)).unwrap();
+            assert!(term
+                .backend()
+                .buffer()
+                .content()
+                .iter()
+                .all(|c| c.fg == Color::Reset));
+            insta::assert_snapshot!(format!("rate_map_no_color_{unit}_{w}x{h}"), text);
+        }
+    }
 }
 
 #[test]

@@ -2,8 +2,9 @@
 //!
 //! With `NO_COLOR` set (to anything non-empty, see no-color.org) every style
 //! here is plain or bold/reversed only, and everything that colour would tell
-//! is also told by characters: shading blocks in the depth map, letters on the
-//! trajectories, markers on the chart.
+//! is also told by characters: water levels and marks in the rate map
+//! (its colours come from [`crate::rate_map`]), letters on the trajectories,
+//! markers on the chart.
 
 use ratatui::style::{Color, Modifier, Style};
 
@@ -13,9 +14,6 @@ pub struct Theme {
     /// True when colour is off.
     pub no_color: bool,
 }
-
-/// Shading characters from dry to wettest (readable without colour).
-pub const SHADES: [char; 5] = ['·', '░', '▒', '▓', '█'];
 
 impl Theme {
     /// The theme the environment asks for: no colour when `NO_COLOR` is set and not empty.
@@ -107,15 +105,4 @@ impl Theme {
     pub const SMALL: Color = Color::LightMagenta;
     /// The ground.
     pub const GROUND: Color = Color::Rgb(150, 110, 60);
-
-    /// Depth-map colour for a level 0..=4 (dry to wettest).
-    pub fn depth_color(level: usize) -> Color {
-        match level {
-            0 => Color::Rgb(120, 80, 40),
-            1 => Color::Rgb(200, 190, 90),
-            2 => Color::Rgb(110, 190, 110),
-            3 => Color::Rgb(60, 140, 200),
-            _ => Color::Rgb(30, 60, 170),
-        }
-    }
 }

@@ -1,10 +1,12 @@
 //! View 3, Pattern: one head's radial application profile, and the layout's
-//! depth map over one repeating cell as shaded cells (colour and shading
-//! characters, so it reads without colour too), with CU, DU_lq, mean rate and
-//! the spacing as a share of the wetted diameter.
+//! rate map over one repeating cell (see [`crate::rate_map`]: the rate on a
+//! continuous colour scale and as a water level in each cell, so it reads
+//! without colour too; the driest quarter marked; heads where they stand; dry
+//! ground as dry), with CU, DU_lq, mean rate and the spacing as a share of the
+//! wetted diameter.
 
 use ratatui::layout::{Constraint, Layout, Rect};
-use ratatui::style::Style;
+use ratatui::style::{Color, Modifier, Style};
 use ratatui::symbols::Marker;
 use ratatui::text::{Line, Span};
 use ratatui::widgets::{Axis, Chart, Dataset, GraphType, Paragraph, Wrap};
@@ -13,24 +15,10 @@ use ratatui::Frame;
 use super::{num, unit, waiting_line};
 use crate::physics::layout::{pattern_name, LayoutResult};
 use crate::physics::pattern::RadialProfile;
+use crate::rate_map::{self, MapCell, RateMap};
 use crate::tui::app::App;
-use crate::tui::theme::{Theme, SHADES};
+use crate::tui::theme::Theme;
 use crate::units::{format_quantity, to_display, Dimension as D};
-
-/// Depth levels as fractions of the mean: below 0.75, 0.75–0.9, 0.9–1.1, 1.1–1.25, above.
-pub const LEVELS: [f64; 4] = [0.75, 0.9, 1.1, 1.25];
-
-/// The legend's names of the levels.
-const LEVEL_NAMES: [&str; 5] = ["<75 %", "75–90 %", "90–110 %", "110–125 %", ">125 %"];
-
-/// The level 0..=4 of a rate relative to the mean.
-pub fn level(rate: f64, mean: f64) -> usize {
-    if mean <= 0.0 {
-        return 0;
-    }
-    let r = rate / mean;
-    LEVELS.iter().filter(|l| r >= **l).count()
-}
 
 /// Draws the Pattern view.
 pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
@@ -57,14 +45,21 @@ pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
     let mut head: Vec<Line> = Vec::new();
     match &spray.layout {
         Some(Ok(l)) => {
-            head.push(Line::from(vec![
+            let mut first = vec![
                 Span::styled(format!("CU {:.1} %", l.uniformity.cu_percent), t.heading()),
                 Span::raw(format!(
                     " · DU_lq {:.1} % · mean {}",
                     l.uniformity.du_lq_percent,
                     rate(l.mean_rate_mm_h),
                 )),
-            ]));
+            ];
+            if area.width >= 100 {
+                first.push(Span::raw(format!(
+                    " · run time for the driest quarter to get the mean depth {}",
+                    rate_map::runtime_factor_words(l.uniformity.driest_quarter_runtime_factor)
+                )));
+            }
+            head.push(Line::from(first));
             let lu = unit(D::Length, app);
             let mut second = format!(
                 "{} {} × {} {lu} · spacing {:.0} % of diameter",
@@ -169,19 +164,31 @@ fn draw_profile(app: &App, profile: &RadialProfile, frame: &mut Frame, area: Rec
     frame.render_widget(chart, area);
 }
 
-/// Width of the map with its legend for `rows` rows of cells, at most `max`.
+/// Width of the map with its legend for `rows` lines of cells, at most `max`.
 fn map_width(l: &LayoutResult, rows: u16, max: u16) -> u16 {
-    let aspect = (l.rows_m / l.spacing_m).max(0.05);
-    let cells = (rows.max(1) as f64 * 2.0 / aspect).round() as u16;
-    (cells + LEGEND_W + 1).min(max)
+    let nx = l.grid.rate_mm_h.first().map_or(0, Vec::len);
+    let cols =
+        (f64::from(rows.saturating_sub(1)) * l.spacing_m / l.rows_m.max(1e-9)).floor() as usize + 1;
+    let cols = cols.min(nx + 1) as u16;
+    (2 * cols + LEGEND_W + 1).min(max)
 }
 
 /// Width of the legend column.
-const LEGEND_W: u16 = 13;
+const LEGEND_W: u16 = 19;
+
+fn rgb(c: (u8, u8, u8)) -> Color {
+    Color::Rgb(c.0, c.1, c.2)
+}
 
 fn draw_map(app: &App, l: &LayoutResult, frame: &mut Frame, area: Rect) {
     let t = &app.theme;
-    let mean = l.mean_rate_mm_h;
+    let paint = |c: (u8, u8, u8)| {
+        if t.no_color {
+            Style::default()
+        } else {
+            Style::default().fg(rgb(c))
+        }
+    };
     let [title, below] = Layout::vertical([Constraint::Length(1), Constraint::Min(2)]).areas(area);
     let [cells, _, legend] = Layout::horizontal([
         Constraint::Min(2),
@@ -190,86 +197,62 @@ fn draw_map(app: &App, l: &LayoutResult, frame: &mut Frame, area: Rect) {
     ])
     .areas(below);
     frame.render_widget(
-        Paragraph::new(Line::styled("depth between heads", t.dim())),
+        Paragraph::new(Line::styled("rate over one repeating cell", t.dim())),
         title,
     );
-    let grid = &l.grid.rate_mm_h;
-    let ny = grid.len();
-    let nx = grid.first().map_or(0, Vec::len);
-    if nx == 0 || ny == 0 || cells.width == 0 || cells.height == 0 {
-        return;
-    }
-    // Terminal cells are about twice as tall as wide: keep the cell's aspect.
-    let aspect = (l.rows_m / l.spacing_m).max(0.05);
-    let mut w = cells.width as usize;
-    let mut h = ((w as f64) * aspect / 2.0).round().max(1.0) as usize;
-    if h > cells.height as usize {
-        h = cells.height as usize;
-        w = ((h as f64) * 2.0 / aspect).round().max(1.0) as usize;
-        w = w.min(cells.width as usize);
-    }
-    let mut lines = Vec::with_capacity(h);
-    for row in 0..h {
-        // Top of the screen is the highest y.
-        let y0 = (h - 1 - row) * ny / h;
-        let y1 = ((h - row) * ny / h).max(y0 + 1);
-        let mut spans = Vec::with_capacity(w);
-        for col in 0..w {
-            let x0 = col * nx / w;
-            let x1 = ((col + 1) * nx / w).max(x0 + 1);
-            let mut sum = 0.0;
-            let mut n = 0usize;
-            for r in grid.iter().take(y1.min(ny)).skip(y0) {
-                for v in r.iter().take(x1.min(nx)).skip(x0) {
-                    sum += v;
-                    n += 1;
-                }
-            }
-            let avg = if n > 0 { sum / n as f64 } else { 0.0 };
-            let lv = level(avg, mean);
-            let ch = SHADES.get(lv).copied().unwrap_or('█');
-            spans.push(Span::styled(
-                ch.to_string(),
-                if t.no_color {
-                    Style::default()
-                } else {
-                    Style::default().fg(Theme::depth_color(lv))
-                },
-            ));
-        }
-        lines.push(Line::from(spans));
-    }
+    let map = RateMap::new(
+        l,
+        usize::from(cells.width / 2),
+        usize::from(cells.height),
+        app.units,
+    );
+    let ink = |i: rate_map::Ink| match i {
+        rate_map::Ink::Head => paint(i.rgb()).add_modifier(Modifier::BOLD),
+        _ => paint(i.rgb()),
+    };
+    let lines: Vec<Line> = map
+        .rows
+        .iter()
+        .map(|row| {
+            Line::from(
+                row.iter()
+                    .flat_map(MapCell::inked)
+                    .map(|(c, i)| Span::styled(c.to_string(), ink(i)))
+                    .collect::<Vec<_>>(),
+            )
+        })
+        .collect();
     frame.render_widget(Paragraph::new(lines), cells);
-    let mut lines = vec![Line::styled("of the mean", t.dim())];
-    for (i, n) in LEVEL_NAMES.iter().enumerate().rev() {
-        let ch = SHADES.get(i).copied().unwrap_or('█');
+    let mut lines = vec![Line::styled(format!("rate {}", map.scale.unit), t.dim())];
+    for (g, x, label) in map.scale_entries() {
         lines.push(Line::from(vec![
-            Span::styled(
-                format!("{ch}{ch}"),
-                if t.no_color {
-                    Style::default()
-                } else {
-                    Style::default().fg(Theme::depth_color(i))
-                },
-            ),
-            Span::raw(format!(" {n}")),
+            Span::styled(format!("{}{}", g[0], g[1]), paint(rate_map::scale_rgb(x))),
+            Span::raw(format!(" {label}")),
         ]));
     }
+    let dx = map.scale.position(map.driest_quarter_max_mm_h);
+    lines.push(Line::from(vec![
+        Span::styled(
+            rate_map::level_glyph(dx).to_string(),
+            paint(rate_map::scale_rgb(dx)),
+        ),
+        Span::styled(
+            rate_map::DRIEST_MARK.to_string(),
+            paint(rate_map::DRIEST_RGB),
+        ),
+        Span::raw(format!(" driest ¼ ≤{}", map.driest_label(app.units))),
+    ]));
+    let glyphs = |g: [char; 2]| format!("{}{}", g[0], g[1]);
+    lines.push(Line::from(vec![
+        Span::styled(glyphs(rate_map::DRY_GLYPHS), paint(rate_map::DRY_RGB)),
+        Span::raw(" dry"),
+    ]));
+    lines.push(Line::from(vec![
+        Span::styled(
+            glyphs(rate_map::HEAD_GLYPHS),
+            paint(rate_map::HEAD_RGB).add_modifier(Modifier::BOLD),
+        ),
+        Span::raw(" head"),
+    ]));
     frame.render_widget(Paragraph::new(lines), legend);
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn levels_split_at_the_legend_bounds() {
-        assert_eq!(level(0.0, 10.0), 0);
-        assert_eq!(level(7.4, 10.0), 0);
-        assert_eq!(level(7.5, 10.0), 1);
-        assert_eq!(level(10.0, 10.0), 2);
-        assert_eq!(level(11.0, 10.0), 3);
-        assert_eq!(level(12.5, 10.0), 4);
-        assert_eq!(level(3.0, 0.0), 0);
-    }
 }
