@@ -597,7 +597,7 @@ fn compare_lists_differences_and_deltas() {
         .as_array()
         .unwrap()
         .iter()
-        .any(|i| i["path"] == "supply.inlet_pa"));
+        .any(|i| i["path"] == "supply.Pressure" && i["unit"] == "Pa"));
     let keys: Vec<&str> = v["results"]
         .as_array()
         .unwrap()
