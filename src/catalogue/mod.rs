@@ -15,7 +15,7 @@
 //! the test helpers that compare two designs.
 //!
 //! To add an input: add the field to `physics::design`, its entry to
-//! [`entries`] (in list order), and, when the file needs it, the schema field
+//! `entries/` (in list order), and, when the file needs it, the schema field
 //! with its default. The tests walk the catalogue and round-trip every entry
 //! through a design and through a saved and re-read scenario.
 //!
@@ -556,7 +556,7 @@ impl Input {
 
 /// Every input, in list order.
 pub fn all() -> &'static [&'static Input] {
-    ALL
+    ALL.as_slice()
 }
 
 /// The input with this path (`wind.speed`, `rotor.arms[].nozzle.diameter`;
