@@ -640,3 +640,17 @@ fn a_crash_writes_a_report_and_says_where() {
     let text = std::fs::read_to_string(reports[0].path()).unwrap();
     assert!(text.contains("deliberate panic"));
 }
+
+#[test]
+fn target_help_names_every_adjustable_input() {
+    // The help line is written by hand; the catalogue says what may be adjusted.
+    let out = bin().args(["target", "--help"]).output().unwrap();
+    let help = String::from_utf8_lossy(&out.stdout);
+    for input in spinwright::catalogue::adjustable() {
+        assert!(
+            help.contains(input.vary_name()),
+            "`target --help` does not name `{}`",
+            input.vary_name()
+        );
+    }
+}
