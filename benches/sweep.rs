@@ -5,9 +5,10 @@
 //! with the wetted radius (throw) at every point included.
 
 use criterion::{criterion_group, criterion_main, Criterion};
+use spinwright::catalogue::{DEFLECTION, INLET_PRESSURE};
+use spinwright::inverse::sweep::{sweep, sweep_with, SweepAxis};
 use spinwright::physics::coverage::wetted_radius_m;
 use spinwright::physics::fixtures::three_arm_rotor;
-use spinwright::physics::study::{sweep, sweep_with, Parameter, SweepAxis};
 use std::hint::black_box;
 use std::time::Duration;
 
@@ -15,13 +16,13 @@ fn sweep_bench(c: &mut Criterion) {
     let design = three_arm_rotor();
     let axes = [
         SweepAxis {
-            parameter: Parameter::Deflection,
+            input: &DEFLECTION,
             from: 0.0,
             to: 70f64.to_radians(),
             steps: 100,
         },
         SweepAxis {
-            parameter: Parameter::Pressure,
+            input: &INLET_PRESSURE,
             from: 100e3,
             to: 500e3,
             steps: 100,

@@ -7,7 +7,8 @@ use criterion::{criterion_group, criterion_main, Criterion};
 use ratatui::backend::TestBackend;
 use ratatui::crossterm::event::{Event, KeyCode, KeyEvent, KeyModifiers};
 use ratatui::Terminal;
-use spinwright::tui::fields::{ArmField, Field};
+use spinwright::catalogue::DEFLECTION;
+use spinwright::tui::fields::Field;
 use spinwright::tui::{draw, App};
 use std::hint::black_box;
 
@@ -18,7 +19,7 @@ fn key(code: KeyCode) -> Event {
 fn edit_and_render(c: &mut Criterion) {
     let mut app = App::open(None).expect("the built-in example opens");
     app.event(&Event::Resize(160, 48));
-    while app.selected_field() != Some(Field::Arm(0, ArmField::Deflection)) {
+    while app.selected_field() != Some(Field::on_arm(&DEFLECTION, 0)) {
         app.event(&key(KeyCode::Down));
     }
     let mut term = Terminal::new(TestBackend::new(160, 48)).expect("test terminal");

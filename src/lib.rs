@@ -3,6 +3,10 @@
 //!
 //! - [`physics`]: the pure model (SI in, SI out).
 //! - [`units`]: quantities typed with units, and values shown in metric or US units.
+//! - [`catalogue`]: every design input written once: file path, label, unit,
+//!   range, nudge step, get/set; validation, the editable list, sweeps, targets
+//!   and comparisons are derived from it.
+//! - [`inverse`]: sweeps, target searches and comparisons over catalogue inputs.
 //! - [`scenario`]: the scenario file (RON with unit tags), its validation into a
 //!   [`physics::design::Design`], writing a design back, and safe saving.
 //! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
@@ -26,8 +30,10 @@
 )]
 
 pub mod audit;
+pub mod catalogue;
 pub mod cli;
 pub mod crash;
+pub mod inverse;
 pub mod physics;
 pub mod rate_map;
 pub mod scenario;

@@ -771,7 +771,7 @@ fn compare_lists_differences_and_deltas() {
         .as_array()
         .unwrap()
         .iter()
-        .any(|i| i["path"] == "supply.inlet_pa"));
+        .any(|i| i["path"] == "supply.Pressure" && i["unit"] == "Pa"));
     let keys: Vec<&str> = v["results"]
         .as_array()
         .unwrap()
@@ -902,4 +902,18 @@ fn a_flow_the_nozzles_cannot_pass_is_refused_in_plain_words() {
             "cannot pass through these nozzles",
         ))
         .stderr(predicate::str::contains("2000 kPa"));
+}
+
+#[test]
+fn target_help_names_every_adjustable_input() {
+    // The help line is written by hand; the catalogue says what may be adjusted.
+    let out = bin().args(["target", "--help"]).output().unwrap();
+    let help = String::from_utf8_lossy(&out.stdout);
+    for input in spinwright::catalogue::adjustable() {
+        assert!(
+            help.contains(input.vary_name()),
+            "`target --help` does not name `{}`",
+            input.vary_name()
+        );
+    }
 }

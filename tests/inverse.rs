@@ -2,6 +2,10 @@
 //! sweeps and comparison — round trips through the full solver, the reading
 //! band by hand, and the field rules of practice (references.md, "Field practice").
 
+use spinwright::catalogue::{self, BRAKE_VISCOUS, DEFLECTION, INLET_PRESSURE};
+use spinwright::inverse::compare::{compare, InputValue};
+use spinwright::inverse::sweep::{sweep, RowStatus, SweepAxis};
+use spinwright::inverse::target::{target, Goal};
 use spinwright::physics::balance::{rpm, solve, SpinStatus};
 use spinwright::physics::design::{Bearing, Design, Line, Supply};
 use spinwright::physics::field::{
@@ -9,8 +13,6 @@ use spinwright::physics::field::{
     REGULATOR_LIMIT_PA,
 };
 use spinwright::physics::fixtures::three_arm_rotor;
-use spinwright::physics::study::{compare, sweep, InputValue, Parameter, RowStatus, SweepAxis};
-use spinwright::physics::target::{target, Adjust, Goal};
 
 fn rel(a: f64, b: f64) -> f64 {
     ((a - b) / b).abs()
@@ -32,7 +34,7 @@ fn measured_bearing(mut d: Design) -> Design {
 /// stopwatch reading can land on it.
 fn slow_rotor() -> Design {
     let d = three_arm_rotor();
-    let r = target(&d, Adjust::Viscous, Goal::Rpm(42.5)).unwrap();
+    let r = target(&d, &BRAKE_VISCOUS, Goal::Rpm(42.5)).unwrap();
     assert!(r.reachable);
     r.design
 }
@@ -315,11 +317,13 @@ fn throw_is_compared_through_the_callers_function() {
 }
 
 #[test]
-fn target_round_trips_for_every_parameter() {
+fn target_round_trips_for_every_adjustable_input() {
     // Solving the adjusted design gives the target within 0.1 %.
     let d = three_arm_rotor();
     let base = op_rpm(&d);
-    for adjust in Adjust::ALL {
+    let adjustable: Vec<_> = catalogue::adjustable().collect();
+    assert_eq!(adjustable.len(), 6);
+    for adjust in adjustable {
         let want = 0.8 * base;
         let r = target(&d, adjust, Goal::Rpm(want)).unwrap();
         assert!(r.reachable, "{adjust:?}: {r:?}");
@@ -336,13 +340,13 @@ fn sweep_rows_equal_individual_solves() {
     let d = three_arm_rotor();
     let axes = [
         SweepAxis {
-            parameter: Parameter::Deflection,
+            input: &DEFLECTION,
             from: 0.0,
             to: 60f64.to_radians(),
             steps: 4,
         },
         SweepAxis {
-            parameter: Parameter::Pressure,
+            input: &INLET_PRESSURE,
             from: 150e3,
             to: 450e3,
             steps: 3,
@@ -356,7 +360,7 @@ fn sweep_rows_equal_individual_solves() {
         let (defl, p) = (axes[0].values()[i], axes[1].values()[j]);
         assert_eq!(row.values, vec![defl, p]);
         let mut one = d.clone();
-        Parameter::Deflection.apply(&mut one, defl).unwrap();
+        DEFLECTION.vary_to(&mut one, defl).unwrap();
         one.supply = Supply::Pressure { inlet_pa: p };
         let report = solve(&one);
         assert_eq!(row.status, RowStatus::Spin(report.status));
@@ -395,7 +399,7 @@ fn compare_a_washer_with_a_measured_bearing() {
     let mu = c
         .inputs
         .iter()
-        .find(|i| i.path == "friction.bearing.mu_kinetic")
+        .find(|i| i.path == "friction.bearing.Washer.mu_kinetic")
         .unwrap();
     assert_eq!(mu.values, vec![Some(InputValue::Number(0.10)), None]);
     // Nothing else differs.

@@ -9,45 +9,30 @@ use serde::Serialize;
 
 use super::text::{sig, TextTable};
 use super::{load_design, quantity, CliError, Format, Outcome, Output};
+use crate::catalogue::{self, Input};
+use crate::inverse::compare::{compare_with_coverage, Comparison, InputValue};
+use crate::inverse::sweep::{sweep_with, SweepAxis};
+use crate::inverse::target::{target, Goal, TargetResult};
 use crate::physics::balance::{solve, SpinReport};
-use crate::physics::coverage::{
-    compare_with_coverage, head_throw, layout_overlap, wetted_radius_m,
-};
+use crate::physics::coverage::{head_throw, layout_overlap, wetted_radius_m};
 use crate::physics::design::Design;
 use crate::physics::field::{
     check, FieldCheck, FieldReading, FieldTolerances, FlowReading, RotationReading, ThrowReading,
 };
 use crate::physics::layout::OverlapOptions;
 use crate::physics::pattern::PatternOptions;
-use crate::physics::study::{sweep_with, Comparison, InputValue, Parameter, SweepAxis};
-use crate::physics::target::{target, Adjust, Goal, TargetResult};
 use crate::scenario::{save_atomic, Scenario};
 use crate::units::{format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
 
-/// The dimension a parameter's values are typed in, `None` for a bare number.
-pub fn parameter_dimension(p: Parameter) -> Option<D> {
-    Some(match p {
-        Parameter::Deflection | Parameter::Elevation => D::Angle,
-        Parameter::Radius | Parameter::Nozzle | Parameter::Bore | Parameter::Height => {
-            D::SmallLength
-        }
-        Parameter::Pressure => D::Pressure,
-        Parameter::Flow => D::Flow,
-        Parameter::Running | Parameter::Breakaway => D::Torque,
-        Parameter::WaterTemperature => D::Temperature,
-        Parameter::Wind => D::Speed,
-        Parameter::Viscous
-        | Parameter::Quadratic
-        | Parameter::Mu
-        | Parameter::MuStatic
-        | Parameter::Cd
-        | Parameter::Cv => return None,
-    })
+/// The dimension an input's values are typed in, `None` for a bare number
+/// (coefficients, and brakes, which are SI in both unit systems).
+pub fn parameter_dimension(p: &Input) -> Option<D> {
+    p.unit.dimension()
 }
 
 /// A value of parameter `p` typed on the command line, in SI. Angles may be
 /// bare numbers (degrees); brake and friction coefficients are bare SI numbers.
-pub fn parameter_value(argument: &str, p: Parameter, text: &str) -> Result<f64, CliError> {
+pub fn parameter_value(argument: &str, p: &Input, text: &str) -> Result<f64, CliError> {
     let text = text.trim();
     match parameter_dimension(p) {
         None => text
@@ -57,7 +42,7 @@ pub fn parameter_value(argument: &str, p: Parameter, text: &str) -> Result<f64, 
             .ok_or_else(|| {
                 CliError::Usage(format!(
                     "{argument}: `{text}` is not a number ({} takes a bare number)",
-                    p.name()
+                    p.vary_name()
                 ))
             }),
         Some(dim) => match text.parse::<f64>() {
@@ -75,13 +60,12 @@ pub fn parse_axis(text: &str) -> Result<SweepAxis, CliError> {
         ))
     };
     let (name, range) = text.split_once('=').ok_or_else(|| bad("no `=`"))?;
-    let parameter = Parameter::from_name(name.trim()).ok_or_else(|| {
+    let parameter = catalogue::by_vary_name(name.trim()).ok_or_else(|| {
         CliError::Usage(format!(
             "--vary {text}: unknown parameter `{}`; known: {}",
             name.trim(),
-            crate::physics::study::Parameter::ALL
-                .iter()
-                .map(|p| p.name())
+            catalogue::varied()
+                .map(|p| p.vary_name())
                 .collect::<Vec<_>>()
                 .join(", ")
         ))
@@ -98,7 +82,7 @@ pub fn parse_axis(text: &str) -> Result<SweepAxis, CliError> {
         return Err(bad("STEPS must be 1 to 100000"));
     }
     Ok(SweepAxis {
-        parameter,
+        input: parameter,
         from: parameter_value("--vary", parameter, from)?,
         to: parameter_value("--vary", parameter, to)?,
         steps,
@@ -421,14 +405,12 @@ struct TargetJson {
     written_to: Option<String>,
 }
 
-fn adjust_dimension(a: Adjust) -> Option<D> {
-    parameter_dimension(a.parameter())
-}
-
-fn show_adjust(a: Adjust, v: f64, units: UnitSystem) -> String {
-    match adjust_dimension(a) {
+fn show_adjust(a: &Input, v: f64, units: UnitSystem) -> String {
+    match parameter_dimension(a) {
         Some(dim) => format_quantity(dim, v, units),
-        None => format!("{} {}", sig(Some(v), 4), a.unit()),
+        None => format!("{} {}", sig(Some(v), 4), a.unit.si_label())
+            .trim()
+            .to_string(),
     }
 }
 
@@ -440,13 +422,12 @@ pub fn run_target(
     out: &mut dyn Write,
 ) -> Result<Outcome, CliError> {
     let design = load_design(path)?;
-    let adjust = Adjust::from_name(&args.adjust).ok_or_else(|| {
+    let adjust = catalogue::by_adjust_name(&args.adjust).ok_or_else(|| {
         CliError::Usage(format!(
             "--adjust {}: choose one of {}",
             args.adjust,
-            Adjust::ALL
-                .iter()
-                .map(|a| a.name())
+            catalogue::adjustable()
+                .map(|a| a.vary_name())
                 .collect::<Vec<_>>()
                 .join(", ")
         ))
@@ -473,7 +454,7 @@ pub fn run_target(
             let notes = format!(
                 "{} adjusted by spinwright target: {} = {}",
                 design.name,
-                adjust.name(),
+                adjust.vary_name(),
                 show_adjust(adjust, result.value, UnitSystem::Metric)
             );
             let text = Scenario::from_design(&result.design, units, &notes).to_ron_string();
@@ -485,7 +466,7 @@ pub fn run_target(
     match o.format {
         Format::Json => {
             let j = TargetJson {
-                parameter: adjust.name(),
+                parameter: adjust.vary_name(),
                 value: result.value,
                 unit: result.unit,
                 start_value: result.start_value,
@@ -510,7 +491,7 @@ pub fn run_target(
                     out,
                     "{}: {} {} (was {}) gives {}",
                     design.name,
-                    adjust.name(),
+                    adjust.vary_name(),
                     show_adjust(adjust, result.value, units),
                     show_adjust(adjust, result.start_value, units),
                     result.achieved.map_or("—".into(), what)
@@ -521,10 +502,10 @@ pub fn run_target(
                     "{}: {} is out of reach by {} over {} to {}; the nearest is {} = {}, giving {}",
                     design.name,
                     what(result.target),
-                    adjust.name(),
+                    adjust.vary_name(),
                     show_adjust(adjust, result.range.0, units),
                     show_adjust(adjust, result.range.1, units),
-                    adjust.name(),
+                    adjust.vary_name(),
                     show_adjust(adjust, result.value, units),
                     result.achieved.map_or("no running speed".into(), what)
                 )?;
@@ -606,8 +587,10 @@ pub fn run_sweep(
     match o.format {
         Format::Csv => {
             let mut w = csv::Writer::from_writer(out);
-            let mut header: Vec<String> =
-                axes.iter().map(|a| a.parameter.key().to_string()).collect();
+            let mut header: Vec<String> = axes
+                .iter()
+                .map(|a| a.input.vary_key().to_string())
+                .collect();
             header.extend(
                 [
                     "status",
@@ -647,7 +630,7 @@ pub fn run_sweep(
                     let e = row.extra.unwrap_or_default();
                     let mut m = serde_json::Map::new();
                     for (a, v) in axes.iter().zip(&row.values) {
-                        m.insert(a.parameter.key().into(), serde_json::json!(v));
+                        m.insert(a.input.vary_key().into(), serde_json::json!(v));
                     }
                     m.insert("status".into(), serde_json::json!(row.status.key()));
                     m.insert("rpm".into(), serde_json::json!(row.rpm));
@@ -671,11 +654,11 @@ pub fn run_sweep(
         }
         Format::Text => {
             let units: UnitSystem = o.units.into();
-            let head = |a: &SweepAxis| match parameter_dimension(a.parameter) {
-                Some(dim) => format!("{} {}", a.parameter.name(), unit_label(dim, units)),
-                None => a.parameter.name().to_string(),
+            let head = |a: &SweepAxis| match parameter_dimension(a.input) {
+                Some(dim) => format!("{} {}", a.input.vary_name(), unit_label(dim, units)),
+                None => a.input.vary_name().to_string(),
             };
-            let show = |a: &SweepAxis, v: f64| match parameter_dimension(a.parameter) {
+            let show = |a: &SweepAxis, v: f64| match parameter_dimension(a.input) {
                 Some(dim) => sig(Some(to_display(dim, v, units)), 4),
                 None => sig(Some(v), 4),
             };

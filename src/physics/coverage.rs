@@ -6,7 +6,7 @@
 //! stationary jets. A head with no equilibrium has no settled speed, so its
 //! throw is that of the jets at rest too, and the report says so.
 
-use super::balance::{solve, SpinModel, SpinReport, SpinStatus};
+use super::balance::{SpinModel, SpinReport, SpinStatus};
 use super::design::{Design, Layout, SpraySpec};
 use super::jet::JetExit;
 use super::layout::{overlap, HeadPattern, LayoutResult, OverlapOptions};
@@ -15,7 +15,6 @@ use super::pattern::{
     PatternGrid, PatternOptions, ThrowComparison, ThrowReport, WindRadii,
 };
 use super::spray::{calibrate, Calibration};
-use super::study::{compare, CompareError, Comparison, ExtraMetric};
 use super::torque::jets;
 use super::trajectory::{FlightEnv, ThrowError};
 
@@ -184,36 +183,4 @@ pub fn uniformity_on_layout(design: &Design, report: &SpinReport) -> Option<(f64
         result.uniformity.cu_percent,
         result.uniformity.du_lq_percent,
     ))
-}
-
-/// Named designs side by side (see [`super::study::compare`]) with the
-/// wetted radius, CU and DU_lq as extra results; CU and DU come from one
-/// overlap per design.
-pub fn compare_with_coverage(designs: &[(&str, &Design)]) -> Result<Comparison, CompareError> {
-    let rated: Vec<(&Design, Option<(f64, f64)>)> = designs
-        .iter()
-        .map(|(_, d)| (*d, uniformity_on_layout(d, &solve(d))))
-        .collect();
-    let lookup = |d: &Design| rated.iter().find(|(x, _)| *x == d).and_then(|(_, u)| *u);
-    let wetted = |d: &Design, r: &SpinReport| wetted_radius_m(d, r).ok();
-    let cu = |d: &Design, _: &SpinReport| lookup(d).map(|u| u.0);
-    let du = |d: &Design, _: &SpinReport| lookup(d).map(|u| u.1);
-    let extras = [
-        ExtraMetric {
-            key: "wetted_radius_m",
-            unit: "m",
-            eval: &wetted,
-        },
-        ExtraMetric {
-            key: "cu_percent",
-            unit: "%",
-            eval: &cu,
-        },
-        ExtraMetric {
-            key: "du_lq_percent",
-            unit: "%",
-            eval: &du,
-        },
-    ];
-    compare(designs, &extras)
 }

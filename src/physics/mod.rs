@@ -16,8 +16,6 @@
 //! - [`coverage`]: the spin state handed to throw, pattern and layout (M6 → M7–M9).
 //! - [`root`]: bracketed root finding with the bracket kept for reports.
 //! - [`field`]: field check, readings at a running sprinkler against its design (M10).
-//! - [`target`]: the value of one design parameter that gives a target speed or throw.
-//! - [`study`]: named parameters, one- and two-axis sweeps, design comparison.
 
 pub mod balance;
 pub mod breakup;
@@ -33,7 +31,10 @@ pub mod pattern;
 pub mod pipe;
 pub mod root;
 pub mod spray;
-pub mod study;
-pub mod target;
 pub mod torque;
 pub mod trajectory;
+
+/// A wetted-radius function supplied by the throw model: the wetted radius of
+/// a design, m (None when there is none, e.g. the rotor stalls). Field checks
+/// and target searches take one so they need not run the throw themselves.
+pub type ThrowFn = dyn Fn(&design::Design) -> Option<f64> + Sync;

@@ -17,6 +17,7 @@ use super::tags::{
     Torque,
 };
 use super::ScenarioError;
+use crate::catalogue::{self as cat, Input, Range};
 use crate::physics::design::{self as d, Design};
 use crate::units::UnitSystem;
 
@@ -195,8 +196,21 @@ impl Checker {
         }
     }
 
+    /// A value of catalogue input `input` (of arm `arm`), checked against
+    /// the catalogue's range and recorded under the catalogue's path.
+    fn input<T: Written>(&mut self, input: &Input, arm: Option<usize>, v: T) -> f64 {
+        let path = input.path_at(arm);
+        match input.range {
+            Range::Any | Range::Unchecked => self.any(&path, v),
+            Range::Positive => self.positive(&path, v),
+            Range::NonNegative => self.non_negative(&path, v),
+            Range::Between { lo, hi, rule } => self.between(&path, v, lo, hi, rule),
+            Range::Fraction => self.coefficient(&path, v),
+        }
+    }
+
     /// A coefficient in (0, 1].
-    fn coefficient(&mut self, path: &str, v: f64) -> f64 {
+    fn coefficient<T: Written>(&mut self, path: &str, v: T) -> f64 {
         match self.finite(path, v) {
             Some(si) if si > 0.0 && si <= 1.0 => si,
             Some(si) => {
@@ -208,13 +222,10 @@ impl Checker {
     }
 }
 
-use crate::physics::breakup::PLAUSIBLE_BREAKUP;
 use crate::physics::hydraulics;
 
 /// Pascals in one pound-force per square inch.
 const PA_PER_PSI: f64 = 6_894.757_293_168;
-
-const DEG: f64 = std::f64::consts::PI / 180.0;
 
 /// Largest size of a value the model computes with, in SI units. Far above
 /// any sprinkler (1 GPa, 1e9 m³/s), far below floating-point overflow.
@@ -239,36 +250,18 @@ impl Scenario {
             );
         }
 
-        let water_temperature_c = c.between(
-            "water.temperature",
-            self.water.temperature,
-            0.0,
-            50.0,
-            "must be between 0 and 50 °C (32–122 °F), the range of the water property correlations",
-        );
+        let water_temperature_c = c.input(&cat::WATER_TEMPERATURE, None, self.water.temperature);
         let site = d::Site {
-            air_temperature_c: c.between(
-                "air.temperature",
-                self.air.temperature,
-                -40.0,
-                60.0,
-                "must be between -40 and 60 °C (-40–140 °F)",
-            ),
-            altitude_m: c.between(
-                "air.altitude",
-                self.air.altitude,
-                -500.0,
-                11_000.0,
-                "must be between -500 m and 11000 m (the standard atmosphere's troposphere)",
-            ),
+            air_temperature_c: c.input(&cat::AIR_TEMPERATURE, None, self.air.temperature),
+            altitude_m: c.input(&cat::ALTITUDE, None, self.air.altitude),
         };
 
         let supply = match self.supply {
             schema::Supply::Pressure(p) => d::Supply::Pressure {
-                inlet_pa: c.positive("supply.Pressure", p),
+                inlet_pa: c.input(&cat::INLET_PRESSURE, None, p),
             },
             schema::Supply::Flow(q) => d::Supply::Flow {
-                total_m3_s: c.positive("supply.Flow", q),
+                total_m3_s: c.input(&cat::TOTAL_FLOW, None, q),
             },
             schema::Supply::Line {
                 source,
@@ -278,22 +271,22 @@ impl Scenario {
                 minor_k,
                 lift,
             } => {
-                let bore_m = c.positive("supply.Line.bore", bore);
-                let roughness_m = c.non_negative("supply.Line.roughness", roughness);
+                let bore_m = c.input(&cat::LINE_BORE, None, bore);
+                let roughness_m = c.input(&cat::LINE_ROUGHNESS, None, roughness);
                 if bore_m > 0.0 && roughness_m >= bore_m / 2.0 {
                     c.push(
-                        "supply.Line.roughness",
+                        cat::LINE_ROUGHNESS.path,
                         roughness,
                         format!("must be smaller than half the bore {bore}"),
                     );
                 }
                 d::Supply::Line(d::Line {
-                    source_pa: c.positive("supply.Line.source", source),
-                    length_m: c.positive("supply.Line.length", length),
+                    source_pa: c.input(&cat::LINE_SOURCE, None, source),
+                    length_m: c.input(&cat::LINE_LENGTH, None, length),
                     bore_m,
                     roughness_m,
-                    minor_k: c.non_negative("supply.Line.minor_k", minor_k),
-                    lift_m: c.any("supply.Line.lift", lift),
+                    minor_k: c.input(&cat::LINE_MINOR_K, None, minor_k),
+                    lift_m: c.input(&cat::LINE_LIFT, None, lift),
                 })
             }
         };
@@ -322,19 +315,19 @@ impl Scenario {
         let spray = self.spray_design(&mut c);
         let layout = self.layout.map(|l| match l {
             schema::Layout::Square { spacing } => d::Layout::Square {
-                spacing_m: c.positive("layout.Square.spacing", spacing),
+                spacing_m: c.input(&cat::SQUARE_SPACING, None, spacing),
             },
             schema::Layout::Rectangle { spacing, rows } => d::Layout::Rectangle {
-                spacing_m: c.positive("layout.Rectangle.spacing", spacing),
-                rows_m: c.positive("layout.Rectangle.rows", rows),
+                spacing_m: c.input(&cat::RECTANGLE_SPACING, None, spacing),
+                rows_m: c.input(&cat::RECTANGLE_ROWS, None, rows),
             },
             schema::Layout::Triangle { spacing } => d::Layout::Triangle {
-                spacing_m: c.positive("layout.Triangle.spacing", spacing),
+                spacing_m: c.input(&cat::TRIANGLE_SPACING, None, spacing),
             },
         });
         let wind = d::Wind {
-            speed_m_s: c.non_negative("wind.speed", self.wind.speed),
-            from_rad: c.any("wind.from", self.wind.from),
+            speed_m_s: c.input(&cat::WIND_SPEED, None, self.wind.speed),
+            from_rad: c.input(&cat::WIND_FROM, None, self.wind.from),
         };
 
         if !c.problems.is_empty() {
@@ -358,25 +351,26 @@ impl Scenario {
 
     fn rotor_design(&self, c: &mut Checker) -> d::Rotor {
         let r = &self.rotor;
-        let hub_radius_m = c.non_negative("rotor.hub_radius", r.hub_radius);
+        let hub_radius_m = c.input(&cat::HUB_RADIUS, None, r.hub_radius);
         let swivel = d::Swivel {
-            inlet_bore_m: c.positive("rotor.swivel.inlet_bore", r.swivel.inlet_bore),
-            k: c.non_negative("rotor.swivel.k", r.swivel.k),
+            inlet_bore_m: c.input(&cat::SWIVEL_BORE, None, r.swivel.inlet_bore),
+            k: c.input(&cat::SWIVEL_K, None, r.swivel.k),
         };
         if r.arms.is_empty() {
             c.push(
-                "rotor.arms",
+                cat::ARM_COUNT.path,
                 "[]",
                 "a rotor needs at least one arm with a nozzle",
             );
         }
         let mut arms = Vec::with_capacity(r.arms.len());
         for (i, arm) in r.arms.iter().enumerate() {
-            let p = |field: &str| format!("rotor.arms[{i}].{field}");
-            let radius_m = c.positive(&p("radius"), arm.radius);
+            let arm_index = Some(i);
+            let p = |input: &Input| input.path_at(arm_index);
+            let radius_m = c.input(&cat::RADIUS, arm_index, arm.radius);
             if radius_m > 0.0 && hub_radius_m >= radius_m {
                 c.push(
-                    &p("radius"),
+                    &p(&cat::RADIUS),
                     arm.radius,
                     format!(
                         "must be larger than rotor.hub_radius = {}: the arm must reach past the hub",
@@ -384,11 +378,11 @@ impl Scenario {
                     ),
                 );
             }
-            let bore_m = c.positive(&p("tube.bore"), arm.tube.bore);
-            let outer_m = c.positive(&p("tube.outer"), arm.tube.outer);
+            let bore_m = c.input(&cat::TUBE_BORE, arm_index, arm.tube.bore);
+            let outer_m = c.input(&cat::TUBE_OUTER, arm_index, arm.tube.outer);
             if bore_m > 0.0 && outer_m > 0.0 && outer_m <= bore_m {
                 c.push(
-                    &p("tube.outer"),
+                    &p(&cat::TUBE_OUTER),
                     arm.tube.outer,
                     format!(
                         "must be larger than the bore {}: a tube's outside is wider than its inside",
@@ -396,20 +390,20 @@ impl Scenario {
                     ),
                 );
             }
-            let roughness_m = c.non_negative(&p("tube.roughness"), arm.tube.roughness);
+            let roughness_m = c.input(&cat::TUBE_ROUGHNESS, arm_index, arm.tube.roughness);
             if bore_m > 0.0 && roughness_m >= bore_m / 2.0 {
                 c.push(
-                    &p("tube.roughness"),
+                    &p(&cat::TUBE_ROUGHNESS),
                     arm.tube.roughness,
                     format!("must be smaller than half the bore {}", arm.tube.bore),
                 );
             }
             let length_m = arm.tube.length.map(|l| {
-                let len = c.positive(&p("tube.length"), l);
+                let len = c.input(&cat::TUBE_LENGTH, arm_index, l);
                 let span = radius_m - hub_radius_m;
                 if len > 0.0 && span > 0.0 && len < span * (1.0 - 1e-9) {
                     c.push(
-                        &p("tube.length"),
+                        &p(&cat::TUBE_LENGTH),
                         l,
                         format!(
                             "must be at least the radius minus the hub radius ({} − {}): the tube reaches from the hub to the nozzle",
@@ -419,11 +413,11 @@ impl Scenario {
                 }
                 len
             });
-            let diameter_m = c.positive(&p("nozzle.diameter"), arm.nozzle.diameter);
+            let diameter_m = c.input(&cat::NOZZLE_DIAMETER, arm_index, arm.nozzle.diameter);
             // (10⁻⁹ slack: a nozzle as wide as its tube, saved in other units, reads back)
             if diameter_m > 0.0 && bore_m > 0.0 && diameter_m > bore_m * (1.0 + 1e-9) {
                 c.push(
-                    &p("nozzle.diameter"),
+                    &p(&cat::NOZZLE_DIAMETER),
                     arm.nozzle.diameter,
                     format!(
                         "is wider than the tube bore {}: a nozzle can be at most as wide as its tube",
@@ -433,49 +427,39 @@ impl Scenario {
             }
             arms.push(d::Arm {
                 radius_m,
-                azimuth_rad: c.any(&p("azimuth"), arm.azimuth),
-                height_m: c.non_negative(&p("height"), arm.height),
-                rise_m: arm.rise.map_or(0.0, |rise| c.any(&p("rise"), rise)),
+                azimuth_rad: c.input(&cat::AZIMUTH, arm_index, arm.azimuth),
+                height_m: c.input(&cat::HEIGHT, arm_index, arm.height),
+                rise_m: arm
+                    .rise
+                    .map_or(0.0, |rise| c.input(&cat::RISE, arm_index, rise)),
                 tube: d::Tube {
                     bore_m,
                     outer_m,
                     roughness_m,
-                    minor_k: c.non_negative(&p("tube.minor_k"), arm.tube.minor_k),
+                    minor_k: c.input(&cat::TUBE_MINOR_K, arm_index, arm.tube.minor_k),
                     length_m,
                 },
                 nozzle: d::Nozzle {
                     diameter_m,
-                    elevation_rad: c.between(
-                        &p("nozzle.elevation"),
-                        arm.nozzle.elevation,
-                        0.0,
-                        90.0 * DEG * (1.0 + 1e-12),
-                        "must be between 0° (level) and 90° (straight up)",
-                    ),
-                    deflection_rad: c.between(
-                        &p("nozzle.deflection"),
-                        arm.nozzle.deflection,
-                        -180.0 * DEG * (1.0 + 1e-12),
-                        180.0 * DEG * (1.0 + 1e-12),
-                        "must be between -180° and 180° (0 = straight back along the arm's tangent, 90 = outward)",
-                    ),
-                    cd: c.coefficient(&p("nozzle.cd"), arm.nozzle.cd),
-                    cv: c.coefficient(&p("nozzle.cv"), arm.nozzle.cv),
+                    elevation_rad: c.input(&cat::ELEVATION, arm_index, arm.nozzle.elevation),
+                    deflection_rad: c.input(&cat::DEFLECTION, arm_index, arm.nozzle.deflection),
+                    cd: c.input(&cat::NOZZLE_CD, arm_index, arm.nozzle.cd),
+                    cv: c.input(&cat::NOZZLE_CV, arm_index, arm.nozzle.cv),
                 },
             });
         }
 
         let inertia = match r.inertia {
             schema::Inertia::Given(i) => d::Inertia::Given {
-                kg_m2: c.positive("rotor.inertia.Given", i),
+                kg_m2: c.input(&cat::INERTIA_GIVEN, None, i),
             },
             schema::Inertia::Estimate {
                 tube_density,
                 tube_wall,
                 tip_mass,
             } => {
-                let wall_path = "rotor.inertia.Estimate.tube_wall";
-                let tube_wall_m = c.positive(wall_path, tube_wall);
+                let wall_path = cat::TUBE_WALL.path;
+                let tube_wall_m = c.input(&cat::TUBE_WALL, None, tube_wall);
                 if let Some((i, arm)) = arms.iter().enumerate().find(|(_, a)| {
                     // 10⁻⁹ slack for a value saved at the limit in other units.
                     a.tube.outer_m > 0.0 && tube_wall_m > a.tube.outer_m / 2.0 * (1.0 + 1e-9)
@@ -493,10 +477,9 @@ impl Scenario {
                     );
                 }
                 d::Inertia::Estimate {
-                    tube_density_kg_m3: c
-                        .positive("rotor.inertia.Estimate.tube_density", tube_density),
+                    tube_density_kg_m3: c.input(&cat::TUBE_DENSITY, None, tube_density),
                     tube_wall_m,
-                    tip_mass_kg: c.non_negative("rotor.inertia.Estimate.tip_mass", tip_mass),
+                    tip_mass_kg: c.input(&cat::TIP_MASS, None, tip_mass),
                 }
             }
         };
@@ -521,23 +504,22 @@ impl Scenario {
                 rotor_mass,
                 radius_rule,
             } => {
-                let p = |field: &str| format!("friction.bearing.Washer.{field}");
-                let inner_m = c.non_negative(&p("inner"), inner);
-                let outer_m = c.positive(&p("outer"), outer);
+                let inner_m = c.input(&cat::WASHER_INNER, None, inner);
+                let outer_m = c.input(&cat::WASHER_OUTER, None, outer);
                 if outer_m > 0.0 && inner_m >= outer_m {
                     c.push(
-                        &p("inner"),
+                        cat::WASHER_INNER.path,
                         inner,
                         format!("must be smaller than the outer radius {outer}"),
                     );
                 }
                 d::Bearing::Washer(d::Washer {
-                    mu_kinetic: c.non_negative(&p("mu_kinetic"), mu_kinetic),
-                    mu_static: c.non_negative(&p("mu_static"), mu_static),
+                    mu_kinetic: c.input(&cat::MU_KINETIC, None, mu_kinetic),
+                    mu_static: c.input(&cat::MU_STATIC, None, mu_static),
                     inner_m,
                     outer_m,
-                    thrust_area_m2: c.non_negative(&p("thrust_area"), thrust_area),
-                    rotor_mass_kg: c.positive(&p("rotor_mass"), rotor_mass),
+                    thrust_area_m2: c.input(&cat::THRUST_AREA, None, thrust_area),
+                    rotor_mass_kg: c.input(&cat::ROTOR_MASS, None, rotor_mass),
                     radius_rule: match radius_rule {
                         schema::WasherRule::UniformWear => d::WasherRule::UniformWear,
                         schema::WasherRule::UniformPressure => d::WasherRule::UniformPressure,
@@ -545,22 +527,22 @@ impl Scenario {
                 })
             }
             schema::Bearing::Measured { running, breakaway } => d::Bearing::Measured {
-                running_n_m: c.non_negative("friction.bearing.Measured.running", running),
-                breakaway_n_m: c.non_negative("friction.bearing.Measured.breakaway", breakaway),
+                running_n_m: c.input(&cat::RUNNING, None, running),
+                breakaway_n_m: c.input(&cat::BREAKAWAY, None, breakaway),
             },
         };
         d::Friction {
             bearing,
             seal: d::Seal {
-                base_n_m: c.non_negative("friction.seal.base", f.seal.base),
+                base_n_m: c.input(&cat::SEAL_BASE, None, f.seal.base),
                 // The file gives torque per kPa; the design per Pa.
-                per_pa_n_m: c.non_negative("friction.seal.per_kpa", f.seal.per_kpa) / 1.0e3,
+                per_pa_n_m: c.input(&cat::SEAL_PER_PRESSURE, None, f.seal.per_kpa) / 1.0e3,
             },
             brake: d::Brake {
-                viscous: c.non_negative("friction.brake.viscous", f.brake.viscous),
-                quadratic: c.non_negative("friction.brake.quadratic", f.brake.quadratic),
+                viscous: c.input(&cat::BRAKE_VISCOUS, None, f.brake.viscous),
+                quadratic: c.input(&cat::BRAKE_QUADRATIC, None, f.brake.quadratic),
             },
-            arm_drag_cd: c.non_negative("friction.arm_drag_cd", f.arm_drag_cd),
+            arm_drag_cd: c.input(&cat::ARM_DRAG_CD, None, f.arm_drag_cd),
         }
     }
 
@@ -579,12 +561,12 @@ impl Scenario {
                 }
             })
         };
-        let d50_m = size("spray.d50", s.d50);
-        let largest_m = size("spray.largest", s.largest);
+        let d50_m = size(cat::D50.path, s.d50);
+        let largest_m = size(cat::LARGEST.path, s.largest);
         if let (Some(d50), Some(largest)) = (d50_m, largest_m) {
             if d50 > 0.0 && largest > 0.0 && largest <= d50 {
                 c.push(
-                    "spray.largest",
+                    cat::LARGEST.path,
                     s.largest,
                     format!(
                         "must be larger than spray.d50 = {}: the median drop cannot be the largest",
@@ -595,28 +577,11 @@ impl Scenario {
         }
         let spread = match s.spread {
             Spread::Auto => None,
-            Spread::Value(n) => Some(c.positive("spray.spread", n)),
+            Spread::Value(n) => Some(c.input(&cat::SPREAD, None, n)),
         };
         let breakup = match s.breakup {
             Breakup::Auto => None,
-            Breakup::Value(b) => {
-                let (lo, hi) = PLAUSIBLE_BREAKUP;
-                match c.finite("spray.breakup", b) {
-                    Some(v) if (lo..=hi).contains(&v) => Some(v),
-                    Some(v) => {
-                        c.push(
-                            "spray.breakup",
-                            b,
-                            format!(
-                                "must be from {lo} to {hi} (a plausible jet; the published \
-                                 default is 11), or Auto"
-                            ),
-                        );
-                        Some(v)
-                    }
-                    None => Some(0.0),
-                }
-            }
+            Breakup::Value(b) => Some(c.input(&cat::BREAKUP, None, b)),
         };
         d::SpraySpec {
             d50_m,

@@ -23,6 +23,32 @@ mod tests {
     use super::*;
     use crate::scenario::load_str;
 
+    /// True when `word` stands in `text` as a field or variant name (`word:`
+    /// or `word(`), not inside a longer name.
+    fn names(text: &str, word: &str) -> bool {
+        text.match_indices(word).any(|(k, _)| {
+            let before = text.get(..k).and_then(|t| t.chars().last());
+            let after = text.get(k + word.len()..).and_then(|t| t.chars().next());
+            !before.is_some_and(|c| c.is_alphanumeric() || c == '_')
+                && matches!(after, Some(':' | '('))
+        })
+    }
+
+    #[test]
+    fn both_starters_mention_every_catalogue_input() {
+        for system in [UnitSystem::Metric, UnitSystem::Us] {
+            let text = starter_text(system);
+            for input in crate::catalogue::all() {
+                assert!(
+                    names(&text, input.file_field()),
+                    "the {system} starter does not mention {} (`{}`)",
+                    input.path,
+                    input.file_field()
+                );
+            }
+        }
+    }
+
     #[test]
     fn both_starters_load_and_describe_the_same_rotor() {
         let metric = load_str(&starter_text(UnitSystem::Metric), "starter (metric)")

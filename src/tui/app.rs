@@ -24,10 +24,11 @@ use super::fields::{self, ChoiceHint, Field, Kind, Row};
 use super::layout::{self, Areas};
 use super::theme::Theme;
 use super::worker::{Done, Job, SprayResult, Worker};
+use crate::catalogue;
+use crate::inverse::compare::Comparison;
 use crate::physics::balance::{solve, table_top_speed, SpinModel, SpinReport, TableRow};
 use crate::physics::design::{Bearing, Design, Washer, WasherRule};
 use crate::physics::field::{FieldCheck, FieldReading, FlowReading, RotationReading, ThrowReading};
-use crate::physics::study::Comparison;
 use crate::scenario::{self, Scenario, ScenarioError};
 use crate::units::{self, Dimension as D, UnitSystem};
 
@@ -806,11 +807,15 @@ impl App {
             .and_then(|s| s.throw.as_ref().ok())
             .and_then(|t| t.nozzles.iter().flatten().next())
             .map(|n| &n.spectrum);
-        match f {
-            Field::D50 => Some(spec.map_or(1.5e-3, |s| s.d50_m)),
-            Field::Spread => Some(spec.map_or(2.5, |s| s.spread)),
-            Field::Largest => Some(spec.map_or(4.0e-3, |s| s.largest_m)),
-            _ => None,
+        let input = f.input;
+        if input == &catalogue::D50 {
+            Some(spec.map_or(1.5e-3, |s| s.d50_m))
+        } else if input == &catalogue::SPREAD {
+            Some(spec.map_or(2.5, |s| s.spread))
+        } else if input == &catalogue::LARGEST {
+            Some(spec.map_or(4.0e-3, |s| s.largest_m))
+        } else {
+            None
         }
     }
 
@@ -827,7 +832,7 @@ impl App {
 
     fn start_input(&mut self, target: InputTarget) {
         let text = match target {
-            InputTarget::Field(f) => fields::typing_seed(&f.get(&self.design), self.units),
+            InputTarget::Field(f) => f.typing_seed(&self.design, self.units),
             InputTarget::SaveAs => self.suggested_name().display().to_string(),
             InputTarget::Measured(Measure::Pressure) => self
                 .measured
@@ -931,7 +936,7 @@ impl App {
     /// Sets a field from typed text (with its unit); refuses with the reason.
     pub fn type_value(&mut self, f: Field, text: &str) -> bool {
         let mut cand = self.design.clone();
-        if f == Field::Name {
+        if f.input == &catalogue::NAME {
             let name = text.trim();
             if name.is_empty() {
                 self.error("refused, value kept: the name must not be empty");
@@ -963,14 +968,16 @@ impl App {
                 self.measured.pressure_pa = None;
                 Ok(())
             }
-            Measure::Pressure => match fields::parse_typed(Field::InletPressure, t, self.units) {
-                Ok(Some(p)) if p > 0.0 => {
-                    self.measured.pressure_pa = Some(p);
-                    Ok(())
+            Measure::Pressure => {
+                match fields::parse_typed(Field::of(&catalogue::INLET_PRESSURE), t, self.units) {
+                    Ok(Some(p)) if p > 0.0 => {
+                        self.measured.pressure_pa = Some(p);
+                        Ok(())
+                    }
+                    Ok(_) => Err("a measured pressure must be above zero".to_string()),
+                    Err(e) => Err(e.0),
                 }
-                Ok(_) => Err("a measured pressure must be above zero".to_string()),
-                Err(e) => Err(e.0),
-            },
+            }
             Measure::Rotation if empty => {
                 self.measured.rotation = None;
                 Ok(())
@@ -985,14 +992,16 @@ impl App {
                 self.measured.throw_m = None;
                 Ok(())
             }
-            Measure::Throw => match fields::parse_typed(Field::Spacing, t, self.units) {
-                Ok(Some(r)) if r > 0.0 => {
-                    self.measured.throw_m = Some(r);
-                    Ok(())
+            Measure::Throw => {
+                match fields::parse_typed(Field::of(&catalogue::SQUARE_SPACING), t, self.units) {
+                    Ok(Some(r)) if r > 0.0 => {
+                        self.measured.throw_m = Some(r);
+                        Ok(())
+                    }
+                    Ok(_) => Err("a measured wetted radius must be above zero".to_string()),
+                    Err(e) => Err(e.0),
                 }
-                Ok(_) => Err("a measured wetted radius must be above zero".to_string()),
-                Err(e) => Err(e.0),
-            },
+            }
         };
         match result {
             Ok(()) => self.request_field(),
@@ -1013,7 +1022,7 @@ impl App {
         cand.rotor.arms.insert(k + 1, arm);
         respace(&mut cand);
         if self.apply(cand) {
-            self.select(Field::Arm(k + 1, fields::ArmField::Diameter));
+            self.select(Field::on_arm(&catalogue::NOZZLE_DIAMETER, k + 1));
             self.info(format!(
                 "added arm {} (a copy of arm {}); arms respaced evenly",
                 k + 2,
@@ -1036,7 +1045,7 @@ impl App {
         respace(&mut cand);
         let n = cand.rotor.arms.len();
         if self.apply(cand) {
-            self.select(Field::Arm(k.min(n - 1), fields::ArmField::Diameter));
+            self.select(Field::on_arm(&catalogue::NOZZLE_DIAMETER, k.min(n - 1)));
             self.info(format!("removed arm {}; arms respaced evenly", k + 1));
         }
     }
@@ -1399,7 +1408,7 @@ pub fn parse_flow(text: &str, system: UnitSystem) -> Result<FlowReading, String>
         }
         return Ok(FlowReading::caught(v, s));
     }
-    match fields::parse_typed(Field::TotalFlow, t, system) {
+    match fields::parse_typed(Field::of(&catalogue::TOTAL_FLOW), t, system) {
         Ok(Some(q)) if q > 0.0 => Ok(FlowReading::rate(q)),
         Ok(_) => Err(format!("a measured flow must be above zero; {help}")),
         Err(e) => Err(format!("{}; {help}", e.0)),

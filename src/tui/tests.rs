@@ -10,9 +10,10 @@ use ratatui::crossterm::event::{
 use ratatui::Terminal;
 
 use super::app::{App, Confirm, Mode, View};
-use super::fields::{ArmField, Field, Row};
+use super::fields::{Field, Row};
 use super::theme::Theme;
 use super::{draw, layout};
+use crate::catalogue as cat;
 use crate::physics::balance::rpm;
 use crate::scenario;
 use crate::units::UnitSystem;
@@ -116,7 +117,7 @@ fn snapshot_of_the_help_overlay_and_a_question() {
 fn snapshot_of_a_windy_pattern_and_a_stalled_rotor() {
     let mut a = app();
     a.event(&key(KeyCode::Char('3')));
-    select(&mut a, Field::WindSpeed);
+    select(&mut a, Field::of(&cat::WIND_SPEED));
     a.event(&key(KeyCode::Enter));
     clear_input(&mut a);
     typed(&mut a, "3m/s");
@@ -130,7 +131,7 @@ fn snapshot_of_a_windy_pattern_and_a_stalled_rotor() {
 
     // Nozzles turned past radial (95°) on every arm: they brake, it cannot start.
     let mut b = app();
-    select(&mut b, Field::Arm(0, ArmField::Deflection));
+    select(&mut b, Field::on_arm(&cat::DEFLECTION, 0));
     b.event(&key(KeyCode::Enter));
     clear_input(&mut b);
     typed(&mut b, "95deg");
@@ -149,7 +150,7 @@ fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
     let before = op_rpm(&a);
 
     // Select arm 1's deflection and nudge it up 1° twice, then coarse down 10°.
-    let defl = Field::Arm(0, ArmField::Deflection);
+    let defl = Field::on_arm(&cat::DEFLECTION, 0);
     select(&mut a, defl);
     let d0 = a.design.rotor.arms[0].nozzle.deflection_rad.to_degrees();
     a.event(&key(KeyCode::Right));
@@ -165,7 +166,7 @@ fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
     assert!(op_rpm(&a) > before, "{} vs {before}", op_rpm(&a));
 
     // Type a pressure with a US unit while showing metric.
-    select(&mut a, Field::InletPressure);
+    select(&mut a, Field::of(&cat::INLET_PRESSURE));
     a.event(&key(KeyCode::Enter));
     clear_input(&mut a);
     typed(&mut a, "45psi");
@@ -181,7 +182,7 @@ fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
 
     // A refused value says why and keeps the old one.
     let kept = a.design.clone();
-    select(&mut a, Field::Arm(1, ArmField::Diameter));
+    select(&mut a, Field::on_arm(&cat::NOZZLE_DIAMETER, 1));
     a.event(&key(KeyCode::Enter));
     clear_input(&mut a);
     typed(&mut a, "-1mm");
@@ -200,7 +201,7 @@ fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
     assert!(a.message.as_ref().unwrap().text.contains("length"));
 
     // A 6.5 in arm radius on arm 3, typed in inches.
-    select(&mut a, Field::Arm(2, ArmField::Radius));
+    select(&mut a, Field::on_arm(&cat::RADIUS, 2));
     a.event(&key(KeyCode::Enter));
     clear_input(&mut a);
     typed(&mut a, "6.5in");
@@ -306,7 +307,7 @@ fn quitting_with_unsaved_changes_asks_and_can_stay() {
 #[test]
 fn arms_are_added_removed_and_share_a_nozzle() {
     let mut a = app();
-    select(&mut a, Field::Arm(1, ArmField::Diameter));
+    select(&mut a, Field::on_arm(&cat::NOZZLE_DIAMETER, 1));
     a.event(&key(KeyCode::Right));
     let big = a.design.rotor.arms[1].nozzle.diameter_m;
     assert!(big > a.design.rotor.arms[0].nozzle.diameter_m);
@@ -364,7 +365,7 @@ fn mouse_selects_fields_and_views_and_scrolls() {
     assert_eq!(a.view, View::Pattern);
     // The list's row 2 (the first rows are: Supply heading, feed, inlet pressure).
     a.event(&click(areas.list.x + 3, areas.list.y + 2));
-    assert_eq!(a.selected_field(), Some(Field::InletPressure));
+    assert_eq!(a.selected_field(), Some(Field::of(&cat::INLET_PRESSURE)));
     // Wheel over the list scrolls it.
     a.event(&Event::Mouse(MouseEvent {
         kind: MouseEventKind::ScrollDown,
@@ -378,14 +379,16 @@ fn mouse_selects_fields_and_views_and_scrolls() {
 #[test]
 fn choices_change_the_list_and_every_feed_solves() {
     let mut a = app();
-    select(&mut a, Field::SupplyKind);
+    select(&mut a, Field::of(&cat::SUPPLY));
     a.event(&key(KeyCode::Right));
-    assert!(a.rows.contains(&Row::Field(Field::TotalFlow)));
+    assert!(a.rows.contains(&Row::Field(Field::of(&cat::TOTAL_FLOW))));
     a.event(&key(KeyCode::Right));
-    assert!(a.rows.contains(&Row::Field(Field::LineLength)));
+    assert!(a.rows.contains(&Row::Field(Field::of(&cat::LINE_LENGTH))));
     assert!(a.report.operating.is_some());
     a.event(&key(KeyCode::Right));
-    assert!(a.rows.contains(&Row::Field(Field::InletPressure)));
+    assert!(a
+        .rows
+        .contains(&Row::Field(Field::of(&cat::INLET_PRESSURE))));
     assert!(a.settle(SETTLE));
 }
 
@@ -464,7 +467,7 @@ fn compare_view_shows_what_an_edit_changed() {
     a.event(&key(KeyCode::Char('5')));
     a.event(&key(KeyCode::Char('c')));
     assert_eq!(a.pins.len(), 1);
-    select(&mut a, Field::Arm(0, ArmField::Deflection));
+    select(&mut a, Field::on_arm(&cat::DEFLECTION, 0));
     a.event(&key(KeyCode::Enter));
     clear_input(&mut a);
     typed(&mut a, "5deg");
@@ -477,7 +480,10 @@ fn compare_view_shows_what_an_edit_changed() {
     };
     assert_eq!(c.names, vec!["pin 1".to_string(), "now".to_string()]);
     assert_eq!(c.inputs.len(), 3, "{:?}", c.inputs);
-    assert!(c.inputs.iter().all(|i| i.path.ends_with("deflection_rad")));
+    assert!(c
+        .inputs
+        .iter()
+        .all(|i| i.path.ends_with("nozzle.deflection")));
     let speed = c.results.iter().find(|r| r.key == "rpm").unwrap();
     // The pin has the old 15° deflection; now, at 5°, it turns faster.
     assert!(speed.deltas[1].unwrap() > 0.0);
@@ -571,7 +577,7 @@ fn the_rate_map_in_colour_and_without_at_both_sizes() {
         );
     }
     // A triangle: one head in the middle of the upper edge.
-    select(&mut a, Field::LayoutKind);
+    select(&mut a, Field::of(&cat::LAYOUT));
     for _ in 0..4 {
         if matches!(a.design.layout, Some(Layout::Triangle { .. })) {
             break;
@@ -649,7 +655,7 @@ fn the_picker_opens_a_scenario_or_adds_it_to_compare() {
 #[test]
 fn tiny_and_odd_terminal_sizes_draw_without_panicking() {
     let mut a = app();
-    select(&mut a, Field::Arm(0, ArmField::Deflection));
+    select(&mut a, Field::on_arm(&cat::DEFLECTION, 0));
     a.event(&key(KeyCode::Char('c')));
     assert!(a.settle(SETTLE));
     for (w, h) in [

@@ -13,17 +13,15 @@ use std::sync::mpsc::{self, Receiver, Sender};
 use std::thread::JoinHandle;
 use std::time::{Duration, Instant};
 
+use crate::inverse::compare::{compare_with_coverage, Comparison};
 use crate::physics::balance::{solve, SpinReport};
-use crate::physics::coverage::{
-    compare_with_coverage, flight_env, head_throw, layout_overlap, wetted_radius_m,
-};
+use crate::physics::coverage::{flight_env, head_throw, layout_overlap, wetted_radius_m};
 use crate::physics::design::Design;
 use crate::physics::field::{check, FieldCheck, FieldReading, FieldTolerances};
 use crate::physics::layout::{LayoutResult, OverlapOptions};
 use crate::physics::pattern::{
     nozzle_paths, NozzlePaths, PatternOptions, ThrowComparison, ThrowReport,
 };
-use crate::physics::study::Comparison;
 
 /// Points per drawn trajectory.
 pub const PATH_SAMPLES: usize = 48;

@@ -9,9 +9,9 @@ use ratatui::widgets::{Cell, Paragraph, Row, Table, Wrap};
 use ratatui::Frame;
 
 use super::num;
-use crate::physics::study::{Comparison, InputValue};
+use crate::inverse::compare::{Comparison, InputDifference, InputValue};
 use crate::tui::app::App;
-use crate::units::{to_display, unit_label, Dimension as D};
+use crate::units::{to_display, unit_label, Dimension as D, UnitSystem};
 
 /// Whether a larger value of a result is better (None: neither).
 pub fn larger_is_better(key: &str) -> Option<bool> {
@@ -36,60 +36,20 @@ fn result_label(key: &str) -> (&'static str, Option<D>) {
     }
 }
 
-/// An input's dimension from its SI unit and path.
-fn input_dimension(path: &str, unit: &str) -> Option<D> {
-    Some(match unit {
-        "m" => {
-            let large = ["altitude", "spacing", "rows", "supply.length", "lift"];
-            if large.iter().any(|k| path.contains(k)) {
-                D::Length
-            } else {
-                D::SmallLength
-            }
-        }
-        "Pa" => D::Pressure,
-        "m3/s" => D::Flow,
-        "rad" => D::Angle,
-        "°C" => D::Temperature,
-        "N·m" => D::Torque,
-        "kg" => D::Mass,
-        "m2" => D::Area,
-        "m/s" => D::Speed,
-        "kg·m²" => D::Inertia,
-        "kg/m3" | "kg/m³" => D::Density,
-        _ => return None,
-    })
+/// An input's label in the list: `arm 2 nozzle mm`, `inlet pressure psi`.
+fn input_label(i: &InputDifference, system: UnitSystem) -> String {
+    let unit = i.input.unit.label(system);
+    let arm = i.arm.map(|k| format!("arm {} ", k + 1)).unwrap_or_default();
+    format!("{arm}{} {unit}", i.input.label)
+        .trim_end()
+        .to_string()
 }
 
-/// `rotor.arms[0].nozzle.diameter_m` → `arm 1 diameter`.
-fn input_label(path: &str) -> String {
-    let mut s = path.to_string();
-    if let Some(rest) = s.strip_prefix("rotor.arms[") {
-        if let Some((k, tail)) = rest.split_once("].") {
-            let n = k.parse::<usize>().map_or(0, |k| k + 1);
-            let tail = tail.strip_prefix("nozzle.").unwrap_or(tail);
-            s = format!("arm {n} {tail}");
-        }
-    }
-    for suffix in [
-        "_m3_s", "_kg_m3", "_m_s", "_pa", "_rad", "_c", "_n_m", "_kg", "_m2", "_m",
-    ] {
-        if let Some(t) = s.strip_suffix(suffix) {
-            s = t.to_string();
-            break;
-        }
-    }
-    s.replace(['.', '_'], " ")
-}
-
-fn show_input(app: &App, path: &str, unit: &str, v: &Option<InputValue>) -> String {
+fn show_input(app: &App, i: &InputDifference, v: &Option<InputValue>) -> String {
     match v {
         None => "—".to_string(),
         Some(InputValue::Text(t)) => t.clone(),
-        Some(InputValue::Number(x)) => match input_dimension(path, unit) {
-            Some(dim) => num(to_display(dim, *x, app.units)),
-            None => num(*x),
-        },
+        Some(InputValue::Number(x)) => num(i.input.unit.to_display(*x, app.units)),
     }
 }
 
@@ -163,15 +123,11 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
         )]));
     }
     for i in &c.inputs {
-        let dim = input_dimension(&i.path, i.unit);
-        let label = match dim {
-            Some(d) => format!("{} {}", input_label(&i.path), unit_label(d, app.units)),
-            None => input_label(&i.path),
-        };
+        let label = input_label(i, app.units);
         let first = i.values.first().cloned().flatten();
         let mut cells = vec![Cell::from(label)];
         for (k, v) in i.values.iter().enumerate() {
-            let text = show_input(app, &i.path, i.unit, v);
+            let text = show_input(app, i, v);
             let style = if k > 0 && *v != first {
                 t.warning()
             } else {
@@ -226,22 +182,37 @@ pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::catalogue::{ALTITUDE, NOZZLE_DIAMETER, SEAL_PER_PRESSURE};
+
+    fn diff(input: &'static crate::catalogue::Input, arm: Option<usize>) -> InputDifference {
+        InputDifference {
+            input,
+            arm,
+            path: input.path_at(arm),
+            unit: input.unit.si_label(),
+            values: Vec::new(),
+        }
+    }
 
     #[test]
-    fn input_paths_read_as_words() {
+    fn inputs_read_as_their_catalogue_labels_with_units() {
+        let m = UnitSystem::Metric;
         assert_eq!(
-            input_label("rotor.arms[0].nozzle.diameter_m"),
-            "arm 1 diameter"
+            input_label(&diff(&NOZZLE_DIAMETER, Some(0)), m),
+            "arm 1 nozzle mm"
         );
-        assert_eq!(input_label("supply.inlet_pa"), "supply inlet");
         assert_eq!(
-            input_label("friction.bearing.mu_kinetic"),
-            "friction bearing mu kinetic"
+            input_label(&diff(&NOZZLE_DIAMETER, Some(2)), UnitSystem::Us),
+            "arm 3 nozzle in"
         );
-        assert_eq!(input_dimension("layout.spacing_m", "m"), Some(D::Length));
+        // A long length from the catalogue, not guessed from the path.
         assert_eq!(
-            input_dimension("rotor.arms[1].radius_m", "m"),
-            Some(D::SmallLength)
+            input_label(&diff(&ALTITUDE, None), UnitSystem::Us),
+            "altitude ft"
+        );
+        assert_eq!(
+            input_label(&diff(&SEAL_PER_PRESSURE, None), m),
+            "seal slope N·m/kPa"
         );
     }
 }

@@ -169,7 +169,7 @@ fn draw_list(app: &App, frame: &mut Frame, left: Rect, list: Rect) {
                 let indent = if f.arm().is_some() { 3 } else { 2 };
                 let value = match typing {
                     Some((tf, text)) if tf == *f => format!("{text}▏"),
-                    _ => fields::show(&f.get(&app.design), app.units),
+                    _ => f.show(&app.design, app.units),
                 };
                 let text = label_value(indent, f.label(), &value, w);
                 if i == app.selected {
@@ -201,17 +201,12 @@ fn draw_tabs(app: &App, frame: &mut Frame, area: Rect) {
 fn field_hint(app: &App, f: Field) -> String {
     let step = |coarse| {
         let s = fields::display_step(f, app.units, coarse);
-        match f.dimension() {
-            Some(dim) => {
-                let label = crate::units::unit_label(dim, app.units);
-                let n = crate::units::format_number(s);
-                if label == "°" {
-                    format!("{n}°")
-                } else {
-                    format!("{n} {label}")
-                }
-            }
-            None => crate::units::format_number(s),
+        let label = f.unit().label(app.units);
+        let n = crate::units::format_number(s);
+        match label.as_str() {
+            "" => n,
+            "°" => format!("{n}°"),
+            _ => format!("{n} {label}"),
         }
     };
     let what = f.describe();
@@ -241,16 +236,15 @@ fn draw_message(app: &App, frame: &mut Frame, area: Rect) {
         (Mode::Typing(input), _) => {
             let what = match input.target {
                 InputTarget::Field(f) => {
-                    let unit = f
-                        .dimension()
-                        .map(|d| {
-                            format!(
-                                " with its unit (e.g. {}; a bare number is in {})",
-                                d.example(),
-                                crate::units::unit_label(d, app.units)
-                            )
-                        })
-                        .unwrap_or_default();
+                    let unit = match f.unit() {
+                        crate::catalogue::Unit::Dim(d) => format!(
+                            " with its unit (e.g. {}; a bare number is in {})",
+                            d.example(),
+                            crate::units::unit_label(d, app.units)
+                        ),
+                        crate::catalogue::Unit::None => String::new(),
+                        u => format!(" (a bare number is in {})", u.label(app.units)),
+                    };
                     format!("type {}{unit}", f.label())
                 }
                 InputTarget::SaveAs => "save as (a .ron file name)".to_string(),

@@ -1,4 +1,4 @@
-//! Target search: the value of one design parameter that gives a wanted speed
+//! Target search: the value of one design input that gives a wanted speed
 //! (or, through a caller's closure, a wanted wetted radius), the rest fixed.
 //!
 //! The search runs on the full model: the parameter's physical range is
@@ -9,191 +9,107 @@
 //! search on |result − target| and returned flagged *unreachable*, with the
 //! result it gives.
 //!
-//! Per-arm parameters move all arms together and keep their offsets (see
-//! [`super::study::Parameter`]); the value searched is the mean over arms.
-//!
-//! Physical ranges (of every arm, so offsets stay inside them):
-//! deflection −89°…89° (beyond 90° the jets brake), elevation 0…89°, arm radius
-//! 1.2 × hub radius (at least 20 mm) to 2.5 m, nozzle 0.2 mm to the arm tube's
-//! bore; brakes from 0 to the coefficient that takes the whole stall torque at
-//! 1 rpm (viscous c₁ = T_stall/ω₁, quadratic c₂ = T_stall/ω₁², ω₁ = 1 rpm).
+//! The inputs a search may adjust, and the physical range each one scans, are
+//! the catalogue entries with a [`Search`] (see `catalogue::entries`): per-arm
+//! inputs move all arms together and keep their offsets; the value searched
+//! is the mean over arms. Today: deflection −89°…89° (beyond 90° the jets
+//! brake), elevation 0…89°, arm radius 1.2 × hub radius (at least 20 mm) to
+//! 2.5 m, nozzle 0.2 mm to the arm tube's bore; brakes from 0 to the
+//! coefficient that takes the whole stall torque at 1 rpm (viscous
+//! c₁ = T_stall/ω₁, quadratic c₂ = T_stall/ω₁², ω₁ = 1 rpm).
 
 use rayon::prelude::*;
 
-use super::balance::{rad_s, rpm, solve, solve_speed, SpinReport};
-use super::design::Design;
-use super::root::{brent, RootError, Tolerance};
-use super::study::{Parameter, ParameterError};
+use crate::catalogue::{Input, Search, VaryError};
+use crate::physics::balance::{rad_s, rpm, solve, solve_speed, SpinReport};
+use crate::physics::design::Design;
+use crate::physics::root::{brent, RootError, Tolerance};
+pub use crate::physics::ThrowFn;
 
-/// Points on the scan grid of a parameter's range.
+/// Points on the scan grid of an input's range.
 pub const SCAN_POINTS: usize = 41;
 
-/// The parameter a target search adjusts.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
-pub enum Adjust {
-    /// Nozzle deflection, rad (mean over arms; shifted).
-    Deflection,
-    /// Nozzle elevation, rad (mean over arms; shifted).
-    Elevation,
-    /// Arm radius, m (mean over arms; scaled).
-    Radius,
-    /// Nozzle diameter, m (mean over arms; scaled).
-    Nozzle,
-    /// Viscous brake c₁, N·m·s/rad.
-    Viscous,
-    /// Quadratic brake c₂, N·m·s²/rad².
-    Quadratic,
+/// The search range of an input a target search may adjust.
+fn search_of(input: &Input) -> Result<Search, TargetError> {
+    input
+        .vary
+        .and_then(|v| v.search)
+        .ok_or(TargetError::NotAdjustable(input.vary_name()))
 }
 
-impl Adjust {
-    /// Every adjustable parameter.
-    pub const ALL: [Adjust; 6] = [
-        Adjust::Deflection,
-        Adjust::Elevation,
-        Adjust::Radius,
-        Adjust::Nozzle,
-        Adjust::Viscous,
-        Adjust::Quadratic,
-    ];
-
-    /// The study parameter it is.
-    pub fn parameter(self) -> Parameter {
-        match self {
-            Adjust::Deflection => Parameter::Deflection,
-            Adjust::Elevation => Parameter::Elevation,
-            Adjust::Radius => Parameter::Radius,
-            Adjust::Nozzle => Parameter::Nozzle,
-            Adjust::Viscous => Parameter::Viscous,
-            Adjust::Quadratic => Parameter::Quadratic,
-        }
+/// The range searched for the value of `input`, SI (see the module docs).
+pub fn range(input: &Input, design: &Design) -> Result<(f64, f64), TargetError> {
+    let search = search_of(input)?;
+    let arms = &design.rotor.arms;
+    if arms.is_empty() {
+        return Err(TargetError::NoArms);
     }
-
-    /// Name as on the command line (`--adjust NAME`).
-    pub fn name(self) -> &'static str {
-        self.parameter().name()
-    }
-
-    /// The adjustment with this name (`brake` means the viscous brake).
-    pub fn from_name(name: &str) -> Option<Adjust> {
-        if name.eq_ignore_ascii_case("brake") {
-            return Some(Adjust::Viscous);
-        }
-        Adjust::ALL
-            .into_iter()
-            .find(|a| a.name().eq_ignore_ascii_case(name))
-    }
-
-    /// SI unit of the value.
-    pub fn unit(self) -> &'static str {
-        self.parameter().unit()
-    }
-
-    /// The range searched for the value, SI (see the module docs).
-    pub fn range(self, design: &Design) -> Result<(f64, f64), TargetError> {
-        let arms = &design.rotor.arms;
-        if arms.is_empty() {
-            return Err(TargetError::NoArms);
-        }
-        let current = self.current(design)?;
-        let deg = std::f64::consts::PI / 180.0;
-        // Mean-value range such that every arm stays inside [lo_i, hi_i].
-        let shifted = |values: Vec<f64>, lo: f64, hi: f64| {
+    let current = current(input, design)?;
+    let values = input.arm_values(design);
+    let range = match search {
+        // Mean-value range such that every arm stays inside [lo, hi].
+        Search::Shifted { lo, hi } => {
             let below = values.iter().map(|v| current - v).fold(f64::MIN, f64::max);
             let above = values.iter().map(|v| v - current).fold(f64::MIN, f64::max);
             (lo + below, hi - above)
-        };
-        let scaled = |pairs: Vec<(f64, f64, f64)>| {
-            let lo = pairs
-                .iter()
-                .map(|(v, lo, _)| lo / v)
-                .fold(f64::MIN, f64::max);
-            let hi = pairs
-                .iter()
-                .map(|(v, _, hi)| hi / v)
-                .fold(f64::MAX, f64::min);
-            (current * lo, current * hi.max(lo))
-        };
-        let range = match self {
-            Adjust::Deflection => shifted(
-                arms.iter().map(|a| a.nozzle.deflection_rad).collect(),
-                -89.0 * deg,
-                89.0 * deg,
-            ),
-            Adjust::Elevation => shifted(
-                arms.iter().map(|a| a.nozzle.elevation_rad).collect(),
-                0.0,
-                89.0 * deg,
-            ),
-            Adjust::Radius => {
-                let lo = (1.2 * design.rotor.hub_radius_m).max(0.02);
-                scaled(arms.iter().map(|a| (a.radius_m, lo, 2.5)).collect())
-            }
-            Adjust::Nozzle => scaled(
-                arms.iter()
-                    .map(|a| (a.nozzle.diameter_m, 0.2e-3, a.tube.bore_m.max(0.2e-3)))
-                    .collect(),
-            ),
-            Adjust::Viscous | Adjust::Quadratic => {
-                let stall = solve_speed(design).stall_torque_n_m.max(1e-9);
-                let w1 = rad_s(1.0);
-                let top = if self == Adjust::Viscous {
-                    stall / w1
-                } else {
-                    stall / (w1 * w1)
-                };
-                (0.0, top.max(2.0 * current))
-            }
-        };
-        if !(range.0.is_finite() && range.1.is_finite()) || range.0 >= range.1 {
-            return Err(TargetError::NoRange {
-                name: self.name(),
-                lo: range.0,
-                hi: range.1,
-            });
         }
-        Ok(range)
+        Search::Scaled { bounds } => {
+            let pairs = arms
+                .iter()
+                .zip(&values)
+                .map(|(a, v)| (*v, bounds(design, a)));
+            let lo = pairs
+                .clone()
+                .map(|(v, (lo, _))| lo / v)
+                .fold(f64::MIN, f64::max);
+            let hi = pairs.map(|(v, (_, hi))| hi / v).fold(f64::MAX, f64::min);
+            (current * lo, current * hi.max(lo))
+        }
+        Search::Brake { power } => {
+            let stall = solve_speed(design).stall_torque_n_m.max(1e-9);
+            let top = stall / rad_s(1.0).powi(power);
+            (0.0, top.max(2.0 * current))
+        }
+    };
+    if !(range.0.is_finite() && range.1.is_finite()) || range.0 >= range.1 {
+        return Err(TargetError::NoRange {
+            name: input.vary_name(),
+            lo: range.0,
+            hi: range.1,
+        });
     }
+    Ok(range)
+}
 
-    fn current(self, design: &Design) -> Result<f64, TargetError> {
-        self.parameter()
-            .value(design)
-            .ok_or(TargetError::NoArms)
-            .and_then(|v| {
-                if matches!(self, Adjust::Radius | Adjust::Nozzle) && v <= 0.0 {
-                    Err(TargetError::NoRange {
-                        name: self.name(),
-                        lo: v,
-                        hi: v,
-                    })
-                } else {
-                    Ok(v)
-                }
-            })
+fn current(input: &Input, design: &Design) -> Result<f64, TargetError> {
+    let search = search_of(input)?;
+    let v = input.varied_value(design).ok_or(TargetError::NoArms)?;
+    if matches!(search, Search::Scaled { .. }) && v <= 0.0 {
+        return Err(TargetError::NoRange {
+            name: input.vary_name(),
+            lo: v,
+            hi: v,
+        });
     }
+    Ok(v)
+}
 
-    /// The scan grid over `range`: linear for angles, geometric for sizes,
-    /// zero then geometric for brakes.
-    fn grid(self, (lo, hi): (f64, f64)) -> Vec<f64> {
-        let n = SCAN_POINTS;
-        let t = |k: usize| k as f64 / (n - 1) as f64;
-        match self {
-            Adjust::Deflection | Adjust::Elevation => {
-                (0..n).map(|k| lo + (hi - lo) * t(k)).collect()
-            }
-            Adjust::Radius | Adjust::Nozzle => (0..n).map(|k| lo * (hi / lo).powf(t(k))).collect(),
-            Adjust::Viscous | Adjust::Quadratic => {
-                let floor = hi * 1e-7;
-                std::iter::once(lo)
-                    .chain((0..n - 1).map(|k| floor * (hi / floor).powf(k as f64 / (n - 2) as f64)))
-                    .collect()
-            }
+/// The scan grid over `range`: linear for shifted angles, geometric for
+/// scaled sizes, zero then geometric for brakes.
+fn grid(search: Search, (lo, hi): (f64, f64)) -> Vec<f64> {
+    let n = SCAN_POINTS;
+    let t = |k: usize| k as f64 / (n - 1) as f64;
+    match search {
+        Search::Shifted { .. } => (0..n).map(|k| lo + (hi - lo) * t(k)).collect(),
+        Search::Scaled { .. } => (0..n).map(|k| lo * (hi / lo).powf(t(k))).collect(),
+        Search::Brake { .. } => {
+            let floor = hi * 1e-7;
+            std::iter::once(lo)
+                .chain((0..n - 1).map(|k| floor * (hi / floor).powf(k as f64 / (n - 2) as f64)))
+                .collect()
         }
     }
 }
-
-/// A wetted-radius function supplied by the throw model: the wetted radius of
-/// a design, m (None when there is none, e.g. the rotor stalls).
-pub type ThrowFn = dyn Fn(&Design) -> Option<f64> + Sync;
 
 /// What the search aims at.
 #[derive(Clone, Copy)]
@@ -246,10 +162,13 @@ pub enum TargetError {
     /// The target is not a positive finite number.
     #[error("target {0} is not a positive number")]
     BadTarget(f64),
-    /// The parameter has no usable range on this design.
+    /// The input is not one a target search may adjust.
+    #[error("`{0}` cannot be adjusted by a target search")]
+    NotAdjustable(&'static str),
+    /// The input has no usable range on this design.
     #[error("`{name}` has no usable range on this design ({lo} to {hi})")]
     NoRange {
-        /// The parameter's name.
+        /// The input's name.
         name: &'static str,
         /// Lower end found.
         lo: f64,
@@ -258,14 +177,14 @@ pub enum TargetError {
     },
     /// The design could not take a value of the range.
     #[error(transparent)]
-    Parameter(#[from] ParameterError),
+    Value(#[from] VaryError),
 }
 
 /// The outcome of a target search.
 #[derive(Debug, Clone, PartialEq)]
 pub struct TargetResult {
     /// What was adjusted.
-    pub adjust: Adjust,
+    pub adjust: &'static Input,
     /// The value found (or the nearest achievable), SI.
     pub value: f64,
     /// SI unit of `value`.
@@ -295,19 +214,19 @@ const GOAL_TOLERANCE: f64 = 1e-7;
 /// Find the value of `adjust` that makes `design` reach `goal`.
 pub fn target(
     design: &Design,
-    adjust: Adjust,
+    adjust: &'static Input,
     goal: Goal<'_>,
 ) -> Result<TargetResult, TargetError> {
     let want = goal.target();
     if !(want.is_finite() && want > 0.0) {
         return Err(TargetError::BadTarget(want));
     }
-    let parameter = adjust.parameter();
-    let start_value = adjust.current(design)?;
-    let range = adjust.range(design)?;
-    let with = |v: f64| -> Result<Design, ParameterError> {
+    let search = search_of(adjust)?;
+    let start_value = current(adjust, design)?;
+    let range = range(adjust, design)?;
+    let with = |v: f64| -> Result<Design, VaryError> {
         let mut d = design.clone();
-        parameter.apply(&mut d, v)?;
+        adjust.vary_to(&mut d, v)?;
         Ok(d)
     };
     // Check the ends once, so that an error is reported, not skipped.
@@ -315,7 +234,7 @@ pub fn target(
     with(range.1)?;
     let eval = |v: f64| with(v).ok().and_then(|d| goal.metric(&d));
 
-    let grid = adjust.grid(range);
+    let grid = grid(search, range);
     let scan: Vec<Option<f64>> = grid.par_iter().map(|&v| eval(v)).collect();
 
     // Every bracketed crossing, polished by Brent.
@@ -375,7 +294,7 @@ pub fn target(
     Ok(TargetResult {
         adjust,
         value,
-        unit: adjust.unit(),
+        unit: adjust.unit.si_label(),
         start_value,
         range,
         target: want,
@@ -434,6 +353,7 @@ fn closest_point(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::catalogue::{by_adjust_name, BRAKE_VISCOUS, DEFLECTION, NOZZLE_DIAMETER, RADIUS};
     use crate::physics::fixtures::three_arm_rotor;
 
     fn rpm_of(d: &Design) -> f64 {
@@ -445,7 +365,7 @@ mod tests {
         let d = three_arm_rotor();
         let base = rpm_of(&d);
         let want = 0.6 * base;
-        let r = target(&d, Adjust::Deflection, Goal::Rpm(want)).unwrap();
+        let r = target(&d, &DEFLECTION, Goal::Rpm(want)).unwrap();
         assert!(r.reachable, "{r:?}");
         assert!(r.value > r.start_value, "more deflection, less speed");
         let got = rpm_of(&r.design);
@@ -456,7 +376,7 @@ mod tests {
     fn an_unreachable_speed_gives_the_nearest_and_says_so() {
         let d = three_arm_rotor();
         // Far more than even zero deflection can give with this brake.
-        let r = target(&d, Adjust::Deflection, Goal::Rpm(1e5)).unwrap();
+        let r = target(&d, &DEFLECTION, Goal::Rpm(1e5)).unwrap();
         assert!(!r.reachable);
         let achieved = r.achieved.unwrap();
         assert!(achieved < 1e5);
@@ -472,7 +392,7 @@ mod tests {
     #[test]
     fn brake_for_a_target_speed() {
         let d = three_arm_rotor();
-        let r = target(&d, Adjust::Viscous, Goal::Rpm(120.0)).unwrap();
+        let r = target(&d, &BRAKE_VISCOUS, Goal::Rpm(120.0)).unwrap();
         assert!(r.reachable, "{r:?}");
         assert!(r.value > d.friction.brake.viscous);
         assert!((rpm_of(&r.design) / 120.0 - 1.0).abs() < 1e-3);
@@ -486,7 +406,7 @@ mod tests {
         let throw = |d: &Design| Some(50.0 * d.rotor.arms[0].radius_m);
         let r = target(
             &d,
-            Adjust::Radius,
+            &RADIUS,
             Goal::Throw {
                 radius_m: 10.0,
                 throw: &throw,
@@ -500,11 +420,11 @@ mod tests {
 
     #[test]
     fn names_and_bad_targets() {
-        assert_eq!(Adjust::from_name("brake"), Some(Adjust::Viscous));
-        assert_eq!(Adjust::from_name("nozzle"), Some(Adjust::Nozzle));
+        assert_eq!(by_adjust_name("brake"), Some(&BRAKE_VISCOUS));
+        assert_eq!(by_adjust_name("nozzle"), Some(&NOZZLE_DIAMETER));
         let d = three_arm_rotor();
         assert!(matches!(
-            target(&d, Adjust::Nozzle, Goal::Rpm(-3.0)),
+            target(&d, &NOZZLE_DIAMETER, Goal::Rpm(-3.0)),
             Err(TargetError::BadTarget(_))
         ));
     }
