@@ -6,6 +6,7 @@ use std::path::Path;
 
 use serde::Serialize;
 
+use super::text::csv_number;
 use super::{load_design, CliError, Format, Outcome, Output};
 use crate::audit::{audit, read_catch_cans, AuditReport};
 use crate::physics::balance::solve;
@@ -17,7 +18,7 @@ use crate::physics::layout::{
 };
 use crate::physics::pattern::{PatternOptions, M_S_TO_MM_H};
 use crate::units::{
-    format_number, format_quantity, to_display, unit_label, Dimension as D, UnitSystem,
+    csv_key, format_number, format_quantity, to_display, unit_label, Dimension as D, UnitSystem,
 };
 
 /// Shading from dry to the wettest cell, for the text depth map.
@@ -229,6 +230,23 @@ pub fn run(
     o: Output,
     out: &mut dyn Write,
 ) -> Result<Outcome, CliError> {
+    if o.format == Format::Csv {
+        // The CSV is the depth grid alone: an option it cannot show is refused,
+        // not dropped.
+        let dropped: Vec<&str> = [
+            args.intake_mm_h.map(|_| "--intake"),
+            args.catch_cans.as_ref().map(|_| "--catch-cans"),
+        ]
+        .into_iter()
+        .flatten()
+        .collect();
+        if !dropped.is_empty() {
+            return Err(CliError::Usage(format!(
+                "{} is reported in the text and JSON reports; the CSV holds the depth grid only (use --format text or json)",
+                dropped.join(" and ")
+            )));
+        }
+    }
     let design = load_design(path)?;
     let layout = args.layout.or(design.layout).ok_or_else(|| {
         CliError::Usage(format!(
@@ -284,20 +302,22 @@ pub fn run(
         Format::Csv => {
             let mut w = csv::Writer::from_writer(out);
             let dim = |v: f64| to_display(D::Length, v, units);
-            let header: Vec<String> =
-                std::iter::once(format!("y \\ x {}", unit_label(D::Length, units)))
-                    .chain(
-                        (0..result.grid.rate_mm_h.first().map_or(0, Vec::len))
-                            .map(|ix| format!("{}", dim((ix as f64 + 0.5) * result.grid.dx_m))),
-                    )
-                    .collect();
+            let header: Vec<String> = std::iter::once(format!(
+                "{}\\{}",
+                csv_key("y", D::Length, units),
+                csv_key("x", D::Length, units)
+            ))
+            .chain(
+                (0..result.grid.rate_mm_h.first().map_or(0, Vec::len))
+                    .map(|ix| csv_number(dim((ix as f64 + 0.5) * result.grid.dx_m))),
+            )
+            .collect();
             w.write_record(&header)?;
             for (iy, row) in result.grid.rate_mm_h.iter().enumerate() {
-                let cells =
-                    std::iter::once(format!("{}", dim((iy as f64 + 0.5) * result.grid.dy_m)))
-                        .chain(row.iter().map(|r| {
-                            format!("{}", to_display(D::ApplicationRate, r / M_S_TO_MM_H, units))
-                        }));
+                let cells = std::iter::once(csv_number(dim((iy as f64 + 0.5) * result.grid.dy_m)))
+                    .chain(row.iter().map(|r| {
+                        csv_number(to_display(D::ApplicationRate, r / M_S_TO_MM_H, units))
+                    }));
                 w.write_record(cells)?;
             }
             w.flush()?;

@@ -5,14 +5,14 @@ use std::path::Path;
 
 use serde::Serialize;
 
-use super::text::TextTable;
+use super::text::{csv_number, TextTable};
 use super::{load_design, CliError, Format, Outcome, Output};
 use crate::physics::balance::solve;
 use crate::physics::coverage::{head_throw, HeadThrow};
 use crate::physics::design::Design;
 use crate::physics::pattern::PatternOptions;
 use crate::units::{
-    format_number, format_quantity, to_display, unit_label, Dimension as D, UnitSystem,
+    csv_key, format_number, format_quantity, to_display, unit_label, Dimension as D, UnitSystem,
 };
 
 /// Profile sample spacing for reports, m.
@@ -188,20 +188,17 @@ pub fn run(
         Format::Csv => {
             let mut w = csv::Writer::from_writer(out);
             w.write_record([
-                format!("distance {}", unit_label(D::Length, units)),
-                format!("rate {}", unit_label(D::ApplicationRate, units)),
+                csv_key("r", D::Length, units),
+                csv_key("rate", D::ApplicationRate, units),
             ])?;
             for p in head.throw.profile.sampled(PROFILE_STEP_M) {
                 w.write_record([
-                    format!("{}", to_display(D::Length, p.r_m, units)),
-                    format!(
-                        "{}",
-                        to_display(
-                            D::ApplicationRate,
-                            p.rate_mm_h / crate::physics::pattern::M_S_TO_MM_H,
-                            units
-                        )
-                    ),
+                    csv_number(to_display(D::Length, p.r_m, units)),
+                    csv_number(to_display(
+                        D::ApplicationRate,
+                        p.rate_mm_h / crate::physics::pattern::M_S_TO_MM_H,
+                        units,
+                    )),
                 ])?;
             }
             w.flush()?;
