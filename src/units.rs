@@ -635,6 +635,29 @@ pub fn unit_label(dim: Dimension, system: UnitSystem) -> &'static str {
     display_unit(dim, system).label
 }
 
+/// The display unit of `dim` in `system` spelt for a CSV column name: ASCII
+/// letters, digits and `_` only (`kPa`, `psi`, `L_min`, `gpm`, `N_m`,
+/// `lbf_in`, `mm_h`, `deg`, `degC`). Column `pressure_kPa` holds kPa.
+pub fn unit_key(dim: Dimension, system: UnitSystem) -> String {
+    let mut key = String::new();
+    for c in unit_label(dim, system).chars() {
+        match c {
+            '°' => key.push_str("deg"),
+            '/' | '·' => key.push('_'),
+            '²' => key.push('2'),
+            '³' => key.push('3'),
+            c if c.is_ascii_alphanumeric() => key.push(c),
+            _ => {}
+        }
+    }
+    key
+}
+
+/// A CSV column name: `name` and the unit of its values (`inlet_pressure_psi`).
+pub fn csv_key(name: &str, dim: Dimension, system: UnitSystem) -> String {
+    format!("{name}_{}", unit_key(dim, system))
+}
+
 /// An SI value (°C for temperatures) in the display unit of `dim` in `system`.
 pub fn to_display(dim: Dimension, si: f64, system: UnitSystem) -> f64 {
     let u = display_unit(dim, system);
@@ -854,6 +877,29 @@ mod tests {
                 }
             }
         }
+    }
+
+    #[test]
+    fn csv_unit_keys_are_plain_ascii_and_distinct_per_system() {
+        for dim in Dimension::ALL {
+            for system in [UnitSystem::Metric, UnitSystem::Us] {
+                let key = unit_key(dim, system);
+                assert!(
+                    !key.is_empty() && key.chars().all(|c| c.is_ascii_alphanumeric() || c == '_'),
+                    "{dim:?} {system}: `{key}`"
+                );
+            }
+        }
+        assert_eq!(unit_key(D::Pressure, UnitSystem::Metric), "kPa");
+        assert_eq!(unit_key(D::Pressure, UnitSystem::Us), "psi");
+        assert_eq!(unit_key(D::Flow, UnitSystem::Metric), "L_min");
+        assert_eq!(unit_key(D::Torque, UnitSystem::Us), "lbf_in");
+        assert_eq!(unit_key(D::Temperature, UnitSystem::Us), "degF");
+        assert_eq!(unit_key(D::Angle, UnitSystem::Metric), "deg");
+        assert_eq!(
+            csv_key("pressure", D::Pressure, UnitSystem::Us),
+            "pressure_psi"
+        );
     }
 
     #[test]

@@ -153,7 +153,7 @@ fn check_design(design: &Design) -> Result<(), String> {
 }
 
 /// JSON keys whose value may be `null` (a number that does not exist in
-/// the state, interface.md); any other `null` is a NaN that serde_json hid.
+/// the state, docs/format.md section 4); any other `null` is a NaN that serde_json hid.
 const MAY_BE_NULL: &[&str] = &[
     "operating_point",
     "start_margin",

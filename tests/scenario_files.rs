@@ -364,8 +364,8 @@ fn saving_a_design_and_loading_it_again() {
 
 #[test]
 fn the_interface_example_and_each_documented_alternative_load() {
-    // interface.md, "Scenario files": the example and the alternatives its
-    // comments name.
+    // docs/format.md, section 1: every section, and each alternative kind the
+    // format names (the fixture's comments name them too).
     let path = root().join("tests/fixtures/interface-example.ron");
     let text = std::fs::read_to_string(&path).unwrap();
     let d = load_str(&text, "interface example")
@@ -424,4 +424,24 @@ fn the_interface_example_and_each_documented_alternative_load() {
             _ => {}
         }
     }
+}
+
+#[test]
+fn the_example_in_the_format_page_loads() {
+    // docs/format.md, section 1.4: the indented block after the heading.
+    let page = std::fs::read_to_string(root().join("docs/format.md")).unwrap();
+    let after = page.split("### 1.4 Example").nth(1).expect("section 1.4");
+    let example: String = after
+        .lines()
+        .skip_while(|l| !l.starts_with("    "))
+        .take_while(|l| l.starts_with("    ") || l.is_empty())
+        .map(|l| format!("{}\n", l.strip_prefix("    ").unwrap_or(l)))
+        .collect();
+    assert!(example.starts_with("Scenario("), "{example}");
+    let d = load_str(&example, "docs/format.md example")
+        .unwrap_or_else(|e| panic!("{e}"))
+        .to_design()
+        .unwrap();
+    assert_eq!(d.rotor.arms.len(), 2);
+    assert_eq!(d.supply, Supply::Pressure { inlet_pa: 280e3 });
 }

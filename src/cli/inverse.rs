@@ -7,8 +7,11 @@ use std::path::{Path, PathBuf};
 
 use serde::Serialize;
 
-use super::text::{sig, TextTable};
-use super::{load_design, quantity, CliError, Format, Outcome, Output};
+use super::text::{csv_number, sig, TextTable};
+use super::{
+    load_design, positive_number, positive_quantity, positive_quantity_or_bare, positive_rpm,
+    quantity, CliError, Format, Outcome, Output,
+};
 use crate::catalogue::{self, Input};
 use crate::inverse::compare::{compare_with_coverage, Comparison, InputValue};
 use crate::inverse::sweep::{sweep_with, SweepAxis};
@@ -22,7 +25,7 @@ use crate::physics::field::{
 use crate::physics::layout::OverlapOptions;
 use crate::physics::pattern::PatternOptions;
 use crate::scenario::{save_atomic, Scenario};
-use crate::units::{format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
+use crate::units::{csv_key, format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
 
 /// The dimension an input's values are typed in, `None` for a bare number
 /// (coefficients, and brakes, which are SI in both unit systems).
@@ -94,12 +97,12 @@ pub fn parse_axis(text: &str) -> Result<SweepAxis, CliError> {
 pub struct CheckArgs {
     /// Inlet pressure as typed.
     pub pressure: String,
-    /// rpm as read from a tachometer.
-    pub rpm: Option<f64>,
-    /// Seconds for one turn.
+    /// Speed as typed: rpm bare (`40`) or with a unit (`40rpm`).
+    pub rpm: Option<String>,
+    /// Time of one turn as typed: seconds bare (`1.5`) or with a unit.
     pub seconds_per_turn: Option<String>,
-    /// Turns counted.
-    pub turns: Option<f64>,
+    /// Turns counted, as typed (a bare number).
+    pub turns: Option<String>,
     /// The `--over` times, in order: first for --turns, then for --caught.
     pub over: Vec<String>,
     /// Measured flow as typed.
@@ -114,27 +117,55 @@ pub struct CheckArgs {
     pub no_header: bool,
 }
 
-fn reading(args: &CheckArgs) -> Result<FieldReading, CliError> {
-    let pressure = quantity("--pressure", D::Pressure, &args.pressure)?;
+fn reading(args: &CheckArgs, format: Format) -> Result<FieldReading, CliError> {
+    if args.no_header && format != Format::Csv {
+        return Err(CliError::Usage(
+            "--no-header goes with --format csv (it leaves out the CSV header line)".into(),
+        ));
+    }
+    let pressure = positive_quantity(
+        "--pressure",
+        D::Pressure,
+        &args.pressure,
+        "the measured gauge pressure",
+    )?;
     let stopwatch = args
         .stopwatch
         .as_deref()
-        .map(|s| quantity("--stopwatch", D::Time, s))
+        .map(|s| {
+            let v = quantity("--stopwatch", D::Time, s)?;
+            if v.is_finite() && v >= 0.0 {
+                Ok(v)
+            } else {
+                Err(CliError::Usage(format!(
+                    "--stopwatch {s}: a stopwatch resolution must be zero or more"
+                )))
+            }
+        })
         .transpose()?;
     let mut over = args.over.iter();
     let mut next_over = |what: &str| -> Result<f64, CliError> {
         let text = over.next().ok_or_else(|| {
             CliError::Usage(format!("{what} needs --over TIME (e.g. --over 14.2s)"))
         })?;
-        quantity("--over", D::Time, text)
+        positive_quantity("--over", D::Time, text, "a timed interval")
     };
     let mut rotation =
-        match (args.rpm, &args.seconds_per_turn, args.turns) {
-            (Some(r), None, None) => RotationReading::rpm(r),
-            (None, Some(s), None) => {
-                RotationReading::seconds_per_turn(quantity("--seconds-per-turn", D::Time, s)?)
+        match (&args.rpm, &args.seconds_per_turn, &args.turns) {
+            (Some(r), None, None) => {
+                RotationReading::rpm(positive_rpm("--rpm", r, "the measured speed")?)
             }
-            (None, None, Some(n)) => RotationReading::turns_over(n, next_over("--turns")?),
+            (None, Some(s), None) => RotationReading::seconds_per_turn(positive_quantity_or_bare(
+                "--seconds-per-turn",
+                D::Time,
+                s,
+                1.0,
+                "the time of one turn",
+            )?),
+            (None, None, Some(n)) => RotationReading::turns_over(
+                positive_number("--turns", n, "the number of turns counted")?,
+                next_over("--turns")?,
+            ),
             (None, None, None) => return Err(CliError::Usage(
                 "give the rotation: --rpm 40, --seconds-per-turn 1.5s, or --turns 10 --over 14.2s"
                     .into(),
@@ -155,13 +186,23 @@ fn reading(args: &CheckArgs) -> Result<FieldReading, CliError> {
                 stopwatch_resolution_s,
                 ..
             } => *stopwatch_resolution_s = res,
-            RotationReading::Rpm { .. } => {}
+            RotationReading::Rpm { .. } => {
+                return Err(CliError::Usage(
+                    "--stopwatch goes with --seconds-per-turn or --turns; an --rpm reading is not timed"
+                        .into(),
+                ))
+            }
         }
     }
     let flow = match (&args.flow, &args.caught) {
-        (Some(q), None) => Some(FlowReading::rate(quantity("--flow", D::Flow, q)?)),
+        (Some(q), None) => Some(FlowReading::rate(positive_quantity(
+            "--flow",
+            D::Flow,
+            q,
+            "the measured flow",
+        )?)),
         (None, Some(v)) => {
-            let volume = quantity("--caught", D::Volume, v)?;
+            let volume = positive_quantity("--caught", D::Volume, v, "the caught volume")?;
             Some(FlowReading::caught(volume, next_over("--caught")?))
         }
         (None, None) => None,
@@ -171,10 +212,22 @@ fn reading(args: &CheckArgs) -> Result<FieldReading, CliError> {
             ))
         }
     };
+    // Every --over is used: the first by --turns (when given), the next by --caught.
+    if let Some(extra) = over.next() {
+        let uses = match (args.turns.is_some(), args.caught.is_some()) {
+            (true, true) => "--turns and --caught take one --over each",
+            (true, false) => "--turns takes one --over; a second needs --caught VOLUME",
+            (false, true) => "--caught takes one --over; another needs --turns COUNT",
+            (false, false) => "--over times --turns or --caught, and neither is given",
+        };
+        return Err(CliError::Usage(format!(
+            "--over {extra} is not used: {uses}"
+        )));
+    }
     let throw = args
         .throw
         .as_deref()
-        .map(|t| quantity("--throw", D::Length, t))
+        .map(|t| positive_quantity("--throw", D::Length, t, "the measured wetted radius"))
         .transpose()?
         .map(ThrowReading::new);
     Ok(FieldReading {
@@ -311,7 +364,7 @@ pub fn run_check(
     out: &mut dyn Write,
 ) -> Result<Outcome, CliError> {
     let design = load_design(path)?;
-    let reading = reading(args)?;
+    let reading = reading(args, o.format)?;
     let result = check(
         &design,
         &reading,
@@ -332,46 +385,65 @@ pub fn run_check(
             let mut w = csv::WriterBuilder::new()
                 .has_headers(false)
                 .from_writer(out);
-            let opt = |v: Option<f64>| v.map_or(String::new(), |x| format!("{x}"));
-            if !args.no_header {
-                w.write_record([
-                    "scenario",
-                    "inlet_pressure_pa",
-                    "measured_rpm",
+            // (column name, dimension, SI value): shown in the chosen units,
+            // the unit in the column name.
+            let dims: [(&str, Option<D>, Option<f64>); 12] = [
+                (
+                    "inlet_pressure",
+                    Some(D::Pressure),
+                    Some(j.inlet_pressure_pa),
+                ),
+                ("measured_rpm", None, Some(j.measured_rpm)),
+                (
                     "measured_rpm_lo",
-                    "measured_rpm_hi",
-                    "expected_rpm",
-                    "deviation_percent",
-                    "implied_running_torque_n_m",
-                    "design_running_torque_n_m",
-                    "measured_flow_m3_s",
-                    "implied_nozzle_diameter_m",
-                    "measured_throw_m",
-                    "expected_throw_m",
-                    "top_finding",
-                ])?;
+                    None,
+                    j.measured_rpm_band.first().copied(),
+                ),
+                ("measured_rpm_hi", None, j.measured_rpm_band.get(1).copied()),
+                ("expected_rpm", None, j.expected_rpm),
+                ("deviation_percent", None, j.deviation_percent),
+                (
+                    "implied_running_torque",
+                    Some(D::Torque),
+                    j.implied_running_torque_n_m,
+                ),
+                (
+                    "design_running_torque",
+                    Some(D::Torque),
+                    j.design_running_torque_n_m,
+                ),
+                ("measured_flow", Some(D::Flow), j.measured_flow_m3_s),
+                (
+                    "implied_nozzle_diameter",
+                    Some(D::SmallLength),
+                    j.implied_nozzle_diameter_m,
+                ),
+                ("measured_throw", Some(D::Length), j.measured_throw_m),
+                ("expected_throw", Some(D::Length), j.expected_throw_m),
+            ];
+            if !args.no_header {
+                let mut header = vec!["scenario".to_string()];
+                header.extend(dims.iter().map(|(name, dim, _)| match dim {
+                    Some(dim) => csv_key(name, *dim, units),
+                    None => (*name).to_string(),
+                }));
+                header.push("top_finding".to_string());
+                w.write_record(&header)?;
             }
             let top = result
                 .findings
                 .iter()
                 .find(|f| f.fault)
                 .map_or("no fault found".to_string(), |f| f.finding.clone());
-            w.write_record([
-                j.scenario.clone(),
-                format!("{}", j.inlet_pressure_pa),
-                format!("{}", j.measured_rpm),
-                format!("{}", j.measured_rpm_band[0]),
-                format!("{}", j.measured_rpm_band[1]),
-                opt(j.expected_rpm),
-                opt(j.deviation_percent),
-                opt(j.implied_running_torque_n_m),
-                opt(j.design_running_torque_n_m),
-                opt(j.measured_flow_m3_s),
-                opt(j.implied_nozzle_diameter_m),
-                opt(j.measured_throw_m),
-                opt(j.expected_throw_m),
-                top,
-            ])?;
+            let mut record = vec![j.scenario.clone()];
+            record.extend(dims.iter().map(|(_, dim, v)| {
+                v.map_or(String::new(), |x| match dim {
+                    Some(dim) => csv_number(to_display(*dim, x, units)),
+                    None => csv_number(x),
+                })
+            }));
+            record.push(top);
+            w.write_record(&record)?;
             w.flush()?;
         }
     }
@@ -381,8 +453,8 @@ pub fn run_check(
 /// What `target` aims at.
 #[derive(Debug, Clone)]
 pub struct TargetArgs {
-    /// Wanted speed, rpm.
-    pub rpm: Option<f64>,
+    /// Wanted speed as typed: rpm bare (`30`) or with a unit (`30rpm`).
+    pub rpm: Option<String>,
     /// Wanted wetted radius as typed.
     pub throw: Option<String>,
     /// The parameter to adjust.
@@ -433,10 +505,10 @@ pub fn run_target(
         ))
     })?;
     let throw_fn = throw_of;
-    let goal = match (args.rpm, &args.throw) {
-        (Some(r), None) => Goal::Rpm(r),
+    let goal = match (&args.rpm, &args.throw) {
+        (Some(r), None) => Goal::Rpm(positive_rpm("--rpm", r, "the wanted speed")?),
         (None, Some(t)) => Goal::Throw {
-            radius_m: quantity("--throw", D::Length, t)?,
+            radius_m: positive_quantity("--throw", D::Length, t, "the wanted wetted radius")?,
             throw: &throw_fn,
         },
         _ => {
@@ -478,7 +550,55 @@ pub fn run_target(
             serde_json::to_writer_pretty(&mut *out, &j).map_err(std::io::Error::from)?;
             writeln!(out)?;
         }
-        Format::Text | Format::Csv => {
+        Format::Csv => {
+            let dim = adjust.unit.dimension();
+            let key = |name: &str| match dim {
+                Some(dim) => csv_key(name, dim, units),
+                // A bare coefficient: SI, its unit spelt in the key.
+                None => format!(
+                    "{name}{}",
+                    adjust
+                        .vary_key()
+                        .strip_prefix(adjust.vary_name())
+                        .unwrap_or("")
+                ),
+            };
+            let value = |v: f64| match dim {
+                Some(dim) => csv_number(to_display(dim, v, units)),
+                None => csv_number(v),
+            };
+            let achieved_key = if rpm_goal {
+                "achieved_rpm".to_string()
+            } else {
+                csv_key("achieved_throw", D::Length, units)
+            };
+            let achieved = result.achieved.map_or(String::new(), |a| {
+                if rpm_goal {
+                    csv_number(a)
+                } else {
+                    csv_number(to_display(D::Length, a, units))
+                }
+            });
+            let mut w = csv::Writer::from_writer(out);
+            w.write_record([
+                "parameter".to_string(),
+                key("value"),
+                key("start_value"),
+                achieved_key,
+                "reachable".to_string(),
+                "written_to".to_string(),
+            ])?;
+            w.write_record([
+                adjust.vary_name().to_string(),
+                value(result.value),
+                value(result.start_value),
+                achieved,
+                result.reachable.to_string(),
+                written.unwrap_or_default(),
+            ])?;
+            w.flush()?;
+        }
+        Format::Text => {
             let what = |v: f64| {
                 if rpm_goal {
                     format!("{v:.1} rpm")
@@ -583,37 +703,45 @@ pub fn run_sweep(
     if let Some(b) = bar {
         b.finish_and_clear();
     }
-    let opt = |v: Option<f64>| v.map_or(String::new(), |x| format!("{x}"));
+    let opt = |v: Option<f64>| v.map_or(String::new(), csv_number);
     match o.format {
         Format::Csv => {
+            // Values in the chosen units, the unit in each column name; a
+            // bare-number parameter keeps its SI key and value.
+            let units: UnitSystem = o.units.into();
             let mut w = csv::Writer::from_writer(out);
             let mut header: Vec<String> = axes
                 .iter()
-                .map(|a| a.input.vary_key().to_string())
+                .map(|a| match a.input.unit {
+                    catalogue::Unit::Dim(dim) => csv_key(a.input.vary_name(), dim, units),
+                    _ => a.input.vary_key().to_string(),
+                })
                 .collect();
-            header.extend(
-                [
-                    "status",
-                    "rpm",
-                    "start_margin",
-                    "total_flow_m3_s",
-                    "wetted_radius_m",
-                ]
-                .map(String::from),
-            );
+            header.extend([
+                "status".to_string(),
+                "rpm".to_string(),
+                "start_margin".to_string(),
+                csv_key("total_flow", D::Flow, units),
+                csv_key("wetted_radius", D::Length, units),
+            ]);
             if with_layout {
                 header.push("cu_percent".into());
             }
             w.write_record(&header)?;
+            let shown = |dim: D, v: Option<f64>| opt(v.map(|x| to_display(dim, x, units)));
             for row in &result.rows {
                 let e = row.extra.unwrap_or_default();
-                let mut rec: Vec<String> = row.values.iter().map(|v| format!("{v}")).collect();
+                let mut rec: Vec<String> = axes
+                    .iter()
+                    .zip(&row.values)
+                    .map(|(a, v)| csv_number(a.input.unit.to_display(*v, units)))
+                    .collect();
                 rec.extend([
                     row.status.key().to_string(),
                     opt(row.rpm),
                     opt(row.start_margin),
-                    opt(row.total_flow_m3_s),
-                    opt(e.wetted_radius_m),
+                    shown(D::Flow, row.total_flow_m3_s),
+                    shown(D::Length, e.wetted_radius_m),
                 ]);
                 if with_layout {
                     rec.push(opt(e.cu_percent));
@@ -787,6 +915,7 @@ pub fn run_compare(paths: &[PathBuf], o: Output, out: &mut dyn Write) -> Result<
             writeln!(out)?;
         }
         Format::Csv => {
+            let units: UnitSystem = o.units.into();
             let mut w = csv::Writer::from_writer(out);
             let mut header = vec!["kind".to_string(), "name".to_string(), "unit".to_string()];
             header.extend(c.names.iter().cloned());
@@ -794,41 +923,44 @@ pub fn run_compare(paths: &[PathBuf], o: Output, out: &mut dyn Write) -> Result<
             header.extend(c.names.iter().skip(1).map(|n| format!("percent {n}")));
             w.write_record(&header)?;
             for i in &c.inputs {
-                let mut rec = vec!["input".to_string(), i.path.clone(), i.unit.to_string()];
-                rec.extend(
-                    i.values
-                        .iter()
-                        .map(|v| v.as_ref().map_or(String::new(), ToString::to_string)),
-                );
+                let shown = ShownInput::new(i, units);
+                let mut rec = vec!["input".to_string(), shown.name, shown.unit.clone()];
+                rec.extend(i.values.iter().map(|v| match v {
+                    Some(InputValue::Number(x)) => csv_number((shown.value)(*x)),
+                    Some(InputValue::Text(t)) => t.clone(),
+                    None => String::new(),
+                }));
                 w.write_record(
                     rec.iter()
                         .chain(std::iter::repeat_n(&String::new(), 2 * (c.names.len() - 1))),
                 )?;
             }
-            let opt = |v: &Option<f64>| v.map_or(String::new(), |x| format!("{x}"));
+            let opt = |v: &Option<f64>| v.map_or(String::new(), csv_number);
             for r in &c.results {
-                let mut rec = vec!["result".to_string(), r.key.clone(), r.unit.clone()];
-                rec.extend(r.values.iter().map(opt));
-                rec.extend(r.deltas.iter().skip(1).map(opt));
+                let shown = ShownResult::new(r, units);
+                let mut rec = vec!["result".to_string(), shown.name, shown.unit];
+                rec.extend(shown.values.iter().map(opt));
+                rec.extend(shown.deltas.iter().skip(1).map(opt));
                 rec.extend(r.percents.iter().skip(1).map(opt));
                 w.write_record(&rec)?;
             }
             w.flush()?;
         }
         Format::Text => {
-            let mut t = TextTable::new(
-                std::iter::once("input (SI)".to_string()).chain(c.names.iter().cloned()),
-            );
+            let units: UnitSystem = o.units.into();
+            let mut t =
+                TextTable::new(std::iter::once("input".to_string()).chain(c.names.iter().cloned()));
             for i in &c.inputs {
+                let shown = ShownInput::new(i, units);
                 t.row(
-                    std::iter::once(if i.unit.is_empty() {
-                        i.path.clone()
-                    } else {
-                        format!("{} {}", i.path, i.unit)
-                    })
+                    std::iter::once(
+                        format!("{} {}", shown.name, shown.unit)
+                            .trim_end()
+                            .to_string(),
+                    )
                     .chain(i.values.iter().map(|v| {
                         v.as_ref().map_or("—".to_string(), |v| match v {
-                            InputValue::Number(x) => sig(Some(*x), 4),
+                            InputValue::Number(x) => sig(Some((shown.value)(*x)), 4),
                             InputValue::Text(s) => s.clone(),
                         })
                     })),
@@ -852,31 +984,32 @@ pub fn run_compare(paths: &[PathBuf], o: Output, out: &mut dyn Write) -> Result<
             );
             for res in &c.results {
                 let better = larger_is_better(&res.key);
-                let cells = res.values.iter().map(|v| sig(*v, 4));
-                let deltas =
-                    res.deltas
-                        .iter()
-                        .zip(&res.percents)
-                        .skip(1)
-                        .map(|(d, p)| match (d, p) {
-                            (Some(d), Some(p)) => {
-                                let mark = match better {
-                                    Some(up) if *d != 0.0 => {
-                                        if (*d > 0.0) == up {
-                                            " better"
-                                        } else {
-                                            " worse"
-                                        }
+                let shown = ShownResult::new(res, units);
+                let cells = shown.values.iter().map(|v| sig(*v, 4));
+                let deltas = shown
+                    .deltas
+                    .iter()
+                    .zip(&res.percents)
+                    .skip(1)
+                    .map(|(d, p)| match (d, p) {
+                        (Some(d), Some(p)) => {
+                            let mark = match better {
+                                Some(up) if *d != 0.0 => {
+                                    if (*d > 0.0) == up {
+                                        " better"
+                                    } else {
+                                        " worse"
                                     }
-                                    _ => "",
-                                };
-                                format!("{} ({p:+.1} %){mark}", sig(Some(*d), 3))
-                            }
-                            (Some(d), None) => sig(Some(*d), 3),
-                            _ => "—".to_string(),
-                        });
+                                }
+                                _ => "",
+                            };
+                            format!("{} ({p:+.1} %){mark}", sig(Some(*d), 3))
+                        }
+                        (Some(d), None) => sig(Some(*d), 3),
+                        _ => "—".to_string(),
+                    });
                 r.row(
-                    std::iter::once(format!("{} {}", res.key, res.unit).trim().to_string())
+                    std::iter::once(format!("{} {}", shown.name, shown.unit).trim().to_string())
                         .chain(cells)
                         .chain(deltas),
                 );
@@ -885,4 +1018,114 @@ pub fn run_compare(paths: &[PathBuf], o: Output, out: &mut dyn Write) -> Result<
         }
     }
     Ok(Outcome::Done)
+}
+
+/// SI unit suffixes of the comparison's field paths and result keys, longest first.
+const SI_SUFFIXES: [&str; 11] = [
+    "_kg_m3", "_kg_m2", "_m3_s", "_n_m", "_m_s", "_pa", "_rad", "_m2", "_kg", "_c", "_m",
+];
+
+/// A name without its SI unit suffix (`total_flow_m3_s` → `total_flow`);
+/// a name that is all unit (`rotor.inertia.kg_m2`) is kept.
+fn without_si_suffix(name: &str) -> &str {
+    SI_SUFFIXES
+        .iter()
+        .find_map(|sfx| {
+            name.strip_suffix(sfx)
+                .filter(|rest| !rest.is_empty() && !rest.ends_with('.'))
+                .filter(|rest| !rest.ends_with(".kg"))
+        })
+        .unwrap_or(name)
+}
+
+/// A compared input as shown: its name without the SI suffix, its unit and
+/// values in the chosen unit system (SI kept for a bare number).
+struct ShownInput {
+    name: String,
+    unit: String,
+    value: Box<dyn Fn(f64) -> f64>,
+}
+
+impl ShownInput {
+    /// The catalogue says each input's unit: no guessing from the path.
+    fn new(difference: &crate::inverse::compare::InputDifference, units: UnitSystem) -> Self {
+        let unit = difference.input.unit;
+        ShownInput {
+            name: without_si_suffix(&difference.path).to_string(),
+            unit: unit.label(units),
+            value: Box::new(move |x| unit.to_display(x, units)),
+        }
+    }
+}
+
+/// A compared result in the chosen unit system: values and deltas converted
+/// (deltas as differences of the shown values), percentages unchanged.
+struct ShownResult {
+    name: String,
+    unit: String,
+    values: Vec<Option<f64>>,
+    deltas: Vec<Option<f64>>,
+}
+
+impl ShownResult {
+    fn new(r: &crate::inverse::compare::ResultComparison, units: UnitSystem) -> Self {
+        let dim = match r.unit.as_str() {
+            "m3/s" => Some(D::Flow),
+            "N·m" => Some(D::Torque),
+            "m" => Some(D::Length),
+            "Pa" => Some(D::Pressure),
+            _ => None,
+        };
+        match dim {
+            Some(dim) => {
+                let values: Vec<Option<f64>> = r
+                    .values
+                    .iter()
+                    .map(|v| v.map(|x| to_display(dim, x, units)))
+                    .collect();
+                let first = values.first().copied().flatten();
+                let deltas = values
+                    .iter()
+                    .map(|v| match (v, first) {
+                        (Some(v), Some(f)) => Some(v - f),
+                        _ => None,
+                    })
+                    .collect();
+                ShownResult {
+                    name: without_si_suffix(&r.key).to_string(),
+                    unit: unit_label(dim, units).to_string(),
+                    values,
+                    deltas,
+                }
+            }
+            None => ShownResult {
+                name: r.key.clone(),
+                unit: r.unit.clone(),
+                values: r.values.clone(),
+                deltas: r.deltas.clone(),
+            },
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn compared_names_lose_their_si_suffix_only() {
+        assert_eq!(without_si_suffix("total_flow_m3_s"), "total_flow");
+        assert_eq!(without_si_suffix("stall_torque_n_m"), "stall_torque");
+        assert_eq!(
+            without_si_suffix("rotor.arms[0].nozzle.diameter_m"),
+            "rotor.arms[0].nozzle.diameter"
+        );
+        assert_eq!(without_si_suffix("wind.speed_m_s"), "wind.speed");
+        assert_eq!(
+            without_si_suffix("rotor.inertia.kg_m2"),
+            "rotor.inertia.kg_m2"
+        );
+        assert_eq!(without_si_suffix("rpm"), "rpm");
+        assert_eq!(without_si_suffix("start_margin"), "start_margin");
+    }
 }

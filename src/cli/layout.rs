@@ -7,6 +7,7 @@ use std::path::Path;
 
 use serde::Serialize;
 
+use super::text::csv_number;
 use super::{load_design, CliError, Format, Outcome, Output};
 use crate::audit::{audit, read_catch_cans, AuditReport};
 use crate::physics::balance::solve;
@@ -18,7 +19,9 @@ use crate::physics::layout::{
 };
 use crate::physics::pattern::{PatternOptions, M_S_TO_MM_H};
 use crate::rate_map::{self, runtime_factor_words, Ink, RateMap};
-use crate::units::{format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
+use crate::units::{
+    csv_key, format_quantity, to_display, Dimension as D, UnitSystem,
+};
 
 /// Options of the `layout` command beyond format and units.
 #[derive(Debug, Clone)]
@@ -300,6 +303,23 @@ pub fn run(
     o: Output,
     out: &mut dyn Write,
 ) -> Result<Outcome, CliError> {
+    if o.format == Format::Csv {
+        // The CSV is the depth grid alone: an option it cannot show is refused,
+        // not dropped.
+        let dropped: Vec<&str> = [
+            args.intake_mm_h.map(|_| "--intake"),
+            args.catch_cans.as_ref().map(|_| "--catch-cans"),
+        ]
+        .into_iter()
+        .flatten()
+        .collect();
+        if !dropped.is_empty() {
+            return Err(CliError::Usage(format!(
+                "{} is reported in the text and JSON reports; the CSV holds the depth grid only (use --format text or json)",
+                dropped.join(" and ")
+            )));
+        }
+    }
     let design = load_design(path)?;
     let layout = args.layout.or(design.layout).ok_or_else(|| {
         CliError::Usage(format!(
@@ -372,28 +392,23 @@ pub fn run(
         }
         Format::Csv => {
             let mut w = csv::Writer::from_writer(out);
-            // Fixed precision: a millimetre (a thousandth of a foot) and a
-            // thousandth of a mm/h (a ten-thousandth of an in/h), no float noise.
-            let dim = |v: f64| format!("{:.3}", to_display(D::Length, v, units));
-            let rate_decimals = match units {
-                UnitSystem::Metric => 3,
-                UnitSystem::Us => 4,
-            };
-            let header: Vec<String> =
-                std::iter::once(format!("y \\ x {}", unit_label(D::Length, units)))
-                    .chain(
-                        (0..result.grid.rate_mm_h.first().map_or(0, Vec::len))
-                            .map(|ix| dim((ix as f64 + 0.5) * result.grid.dx_m)),
-                    )
-                    .collect();
+            let dim = |v: f64| to_display(D::Length, v, units);
+            let header: Vec<String> = std::iter::once(format!(
+                "{}\\{}",
+                csv_key("y", D::Length, units),
+                csv_key("x", D::Length, units)
+            ))
+            .chain(
+                (0..result.grid.rate_mm_h.first().map_or(0, Vec::len))
+                    .map(|ix| csv_number(dim((ix as f64 + 0.5) * result.grid.dx_m))),
+            )
+            .collect();
             w.write_record(&header)?;
             for (iy, row) in result.grid.rate_mm_h.iter().enumerate() {
-                let cells = std::iter::once(dim((iy as f64 + 0.5) * result.grid.dy_m)).chain(
-                    row.iter().map(|r| {
-                        let v = to_display(D::ApplicationRate, r / M_S_TO_MM_H, units);
-                        format!("{v:.rate_decimals$}")
-                    }),
-                );
+                let cells = std::iter::once(csv_number(dim((iy as f64 + 0.5) * result.grid.dy_m)))
+                    .chain(row.iter().map(|r| {
+                        csv_number(to_display(D::ApplicationRate, r / M_S_TO_MM_H, units))
+                    }));
                 w.write_record(cells)?;
             }
             w.flush()?;

@@ -51,8 +51,8 @@ pub enum Command {
     Table {
         /// The scenario file.
         file: PathBuf,
-        /// Number of rows (at least 2).
-        #[arg(long, default_value_t = 41, value_parser = clap::value_parser!(u32).range(2..=100_000))]
+        /// Number of rows (2 to 100000).
+        #[arg(long, default_value_t = 41, allow_negative_numbers = true, value_parser = clap::value_parser!(u32).range(2..=100_000))]
         points: u32,
         /// Format and units of the report.
         #[command(flatten)]
@@ -63,7 +63,7 @@ pub enum Command {
         /// The scenario file.
         file: PathBuf,
         /// A measured wetted radius (e.g. 7.5m, 25ft): calibrate the jet breakup to it.
-        #[arg(long)]
+        #[arg(long, allow_hyphen_values = true)]
         measured: Option<String>,
         /// Format and units of the report.
         #[command(flatten)]
@@ -77,13 +77,13 @@ pub enum Command {
         #[arg(long, value_enum)]
         pattern: Option<PatternArg>,
         /// Head spacing along a row (e.g. 9m, 30ft).
-        #[arg(long)]
+        #[arg(long, allow_hyphen_values = true)]
         spacing: Option<String>,
         /// Row spacing for a rectangle (e.g. 10m).
-        #[arg(long)]
+        #[arg(long, allow_hyphen_values = true)]
         rows: Option<String>,
         /// Soil intake rate (e.g. 10mm/h, 0.4in/h): warn and suggest cycle-and-soak above it.
-        #[arg(long)]
+        #[arg(long, allow_hyphen_values = true)]
         intake: Option<String>,
         /// Measured catch-can test (CSV) to rate beside the model.
         #[arg(long, value_name = "CSV")]
@@ -100,33 +100,33 @@ pub enum Command {
         /// The scenario file of the unit's design.
         file: PathBuf,
         /// Measured inlet pressure (e.g. 2.8bar, 40psi).
-        #[arg(long)]
+        #[arg(long, allow_hyphen_values = true)]
         pressure: String,
-        /// Measured speed, rpm.
-        #[arg(long)]
-        rpm: Option<f64>,
-        /// Time of one turn (e.g. 1.5s).
-        #[arg(long)]
+        /// Measured speed: rpm as a bare number (40) or with a unit (40rpm, 4.2rad/s).
+        #[arg(long, allow_hyphen_values = true)]
+        rpm: Option<String>,
+        /// Time of one turn: seconds as a bare number (1.5) or with a unit (1.5s).
+        #[arg(long, allow_hyphen_values = true)]
         seconds_per_turn: Option<String>,
-        /// Turns counted over --over TIME.
-        #[arg(long)]
-        turns: Option<f64>,
+        /// Turns counted over --over TIME (a bare number).
+        #[arg(long, allow_hyphen_values = true)]
+        turns: Option<String>,
         /// Time of the counted turns, then of the caught volume (e.g. 14.2s).
-        #[arg(long, action = clap::ArgAction::Append)]
+        #[arg(long, action = clap::ArgAction::Append, allow_hyphen_values = true)]
         over: Vec<String>,
         /// Measured total flow (e.g. 12L/min, 3.2gpm).
-        #[arg(long)]
+        #[arg(long, allow_hyphen_values = true)]
         flow: Option<String>,
         /// Volume caught in a bucket over --over TIME (e.g. 5L).
-        #[arg(long)]
+        #[arg(long, allow_hyphen_values = true)]
         caught: Option<String>,
         /// Measured wetted radius (e.g. 7.5m).
-        #[arg(long)]
+        #[arg(long, allow_hyphen_values = true)]
         throw: Option<String>,
-        /// Stopwatch resolution (default 0.2s).
-        #[arg(long)]
+        /// Stopwatch resolution for --seconds-per-turn and --turns (default 0.2s).
+        #[arg(long, allow_hyphen_values = true)]
         stopwatch: Option<String>,
-        /// CSV without its header line, for appending to a log.
+        /// CSV without its header line, for appending to a log (with --format csv).
         #[arg(long)]
         no_header: bool,
         /// Format and units of the report.
@@ -137,11 +137,11 @@ pub enum Command {
     Target {
         /// The scenario file.
         file: PathBuf,
-        /// Wanted operating speed, rpm.
-        #[arg(long)]
-        rpm: Option<f64>,
+        /// Wanted operating speed: rpm as a bare number (30) or with a unit (30rpm).
+        #[arg(long, allow_hyphen_values = true)]
+        rpm: Option<String>,
         /// Wanted wetted radius (e.g. 8m).
-        #[arg(long)]
+        #[arg(long, allow_hyphen_values = true)]
         throw: Option<String>,
         /// What to adjust: deflection, elevation, radius, nozzle, viscous, quadratic (brake: viscous).
         #[arg(long)]
@@ -265,6 +265,21 @@ pub enum CliError {
     Csv(#[from] csv::Error),
 }
 
+impl CliError {
+    /// Whether this is a write to a closed pipe (`spinwright table … | head -1`):
+    /// the reader has all it wanted, which is not an error.
+    pub fn is_broken_pipe(&self) -> bool {
+        match self {
+            CliError::Output(e) => e.kind() == std::io::ErrorKind::BrokenPipe,
+            CliError::Csv(e) => match e.kind() {
+                csv::ErrorKind::Io(io) => io.kind() == std::io::ErrorKind::BrokenPipe,
+                _ => false,
+            },
+            _ => false,
+        }
+    }
+}
+
 /// What a command reports back to `main`.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Outcome {
@@ -299,7 +314,14 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             out: o,
         } => {
             let measured = measured
-                .map(|m| quantity("--measured", crate::units::Dimension::Length, &m))
+                .map(|m| {
+                    positive_quantity(
+                        "--measured",
+                        crate::units::Dimension::Length,
+                        &m,
+                        "a wetted radius",
+                    )
+                })
                 .transpose()?;
             throw::run(&file, measured, o, out)
         }
@@ -328,7 +350,14 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             let args = layout::LayoutArgs {
                 layout: layout_override(pattern, spacing.as_deref(), rows.as_deref())?,
                 intake_mm_h: intake
-                    .map(|i| quantity("--intake", crate::units::Dimension::ApplicationRate, &i))
+                    .map(|i| {
+                        positive_quantity(
+                            "--intake",
+                            crate::units::Dimension::ApplicationRate,
+                            &i,
+                            "a soil intake rate",
+                        )
+                    })
                     .transpose()?
                     .map(|r| r * crate::physics::pattern::M_S_TO_MM_H),
                 catch_cans,
@@ -399,11 +428,82 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
 }
 
 /// Parse a quantity typed with units, naming the argument on error.
+///
+/// This is the parser the terminal interface uses for typed values
+/// ([`crate::units::parse_quantity`]), so `2.8bar`, `45psi`, `30rpm` and
+/// `1.5s` read the same in both.
 pub fn quantity(argument: &str, dim: crate::units::Dimension, text: &str) -> Result<f64, CliError> {
     crate::units::parse_quantity(dim, text).map_err(|error| CliError::Quantity {
         argument: argument.to_string(),
         error,
     })
+}
+
+/// A quantity that must be more than zero (a reading, a spacing, a target),
+/// in SI. `what` names it in the message (`the measured pressure`).
+pub fn positive_quantity(
+    argument: &str,
+    dim: crate::units::Dimension,
+    text: &str,
+    what: &str,
+) -> Result<f64, CliError> {
+    let v = quantity(argument, dim, text)?;
+    must_be_positive(argument, text, what, v)
+}
+
+/// A quantity whose argument names its unit (`--rpm`, `--seconds-per-turn`):
+/// a bare number is in that unit (`bare_si` SI per unit), a number with a
+/// unit is read as any other quantity. Must be more than zero. SI.
+pub fn positive_quantity_or_bare(
+    argument: &str,
+    dim: crate::units::Dimension,
+    text: &str,
+    bare_si: f64,
+    what: &str,
+) -> Result<f64, CliError> {
+    let v = match text.trim().parse::<f64>() {
+        Ok(bare) => bare * bare_si,
+        Err(_) => quantity(argument, dim, text)?,
+    };
+    must_be_positive(argument, text, what, v)
+}
+
+/// A speed argument (`--rpm 40`, `--rpm 40rpm`, `--rpm 4.2rad/s`) in rpm,
+/// more than zero. `40rpm` gives exactly 40, not 40 through rad/s and back.
+pub fn positive_rpm(argument: &str, text: &str, what: &str) -> Result<f64, CliError> {
+    use crate::units::factor::RPM_RAD_S;
+    let rad_s = positive_quantity_or_bare(
+        argument,
+        crate::units::Dimension::AngularSpeed,
+        text,
+        RPM_RAD_S,
+        what,
+    )?;
+    Ok(crate::scenario::tags::tidy(rad_s / RPM_RAD_S))
+}
+
+/// A bare positive number (a count of turns).
+pub fn positive_number(argument: &str, text: &str, what: &str) -> Result<f64, CliError> {
+    let v = text.trim().parse::<f64>().map_err(|_| {
+        CliError::Usage(format!(
+            "{argument} {text}: {what} is a bare number (e.g. {argument} 10)"
+        ))
+    })?;
+    must_be_positive(argument, text, what, v)
+}
+
+fn must_be_positive(argument: &str, text: &str, what: &str, v: f64) -> Result<f64, CliError> {
+    if !v.is_finite() {
+        Err(CliError::Usage(format!(
+            "{argument} {text}: {what} must be a finite number"
+        )))
+    } else if v <= 0.0 {
+        Err(CliError::Usage(format!(
+            "{argument} {text}: {what} must be more than zero"
+        )))
+    } else {
+        Ok(v)
+    }
 }
 
 fn layout_override(
@@ -414,14 +514,7 @@ fn layout_override(
     use crate::physics::design::Layout;
     use crate::units::Dimension;
     let positive = |arg: &str, text: &str| -> Result<f64, CliError> {
-        let v = quantity(arg, Dimension::Length, text)?;
-        if v > 0.0 {
-            Ok(v)
-        } else {
-            Err(CliError::Usage(format!(
-                "{arg} {text}: a spacing must be more than zero"
-            )))
-        }
+        positive_quantity(arg, Dimension::Length, text, "a spacing")
     };
     let Some(spacing) = spacing else {
         return match (pattern, rows) {
@@ -478,9 +571,20 @@ pub fn main_with(
 ) -> ExitCode {
     let stdout = std::io::stdout();
     let mut lock = stdout.lock();
-    let result = match cli.command {
-        Some(command) => run(command, &mut lock).map_err(|e| format!("{e:#}")),
-        None => open_interface(cli.file).map(|()| Outcome::Done),
+    let result = match (cli.command, cli.file) {
+        (Some(_), Some(file)) => Err(format!(
+            "{}: a file before the command only opens the interface; give it after the command (spinwright solve FILE)",
+            file.display()
+        )),
+        (Some(command), None) => match run(command, &mut lock).and_then(|outcome| {
+            lock.flush()?;
+            Ok(outcome)
+        }) {
+            // The reader closed the pipe (`| head`): it has what it wanted.
+            Err(e) if e.is_broken_pipe() => Ok(Outcome::Done),
+            other => other.map_err(|e| format!("{e:#}")),
+        },
+        (None, file) => open_interface(file).map(|()| Outcome::Done),
     };
     match result {
         Ok(Outcome::Done) => ExitCode::SUCCESS,
@@ -503,9 +607,15 @@ pub fn open_without_command(file: Option<PathBuf>) -> Result<(), String> {
             .map_err(|e| format!("{e:#}"))?,
     };
     let (report, head) = solve::solve_with_throw(&design);
-    print!(
-        "{}",
-        solve::solve_text(&design, &report, head.as_ref(), UnitSystem::Metric)
-    );
-    Ok(())
+    let text = solve::solve_text(&design, &report, head.as_ref(), UnitSystem::Metric);
+    let mut stdout = std::io::stdout().lock();
+    match stdout
+        .write_all(text.as_bytes())
+        .and_then(|()| stdout.flush())
+    {
+        Err(e) if e.kind() != std::io::ErrorKind::BrokenPipe => {
+            Err(format!("cannot write the report: {e}"))
+        }
+        _ => Ok(()),
+    }
 }

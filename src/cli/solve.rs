@@ -15,7 +15,7 @@ use crate::physics::pattern::PatternOptions;
 use crate::physics::torque::{absolute_velocity, arm_frame};
 use crate::units::{format_quantity, Dimension as D, UnitSystem};
 
-/// The JSON report of `solve`; keys are fixed by interface.md.
+/// The JSON report of `solve`; its keys are listed in docs/format.md.
 #[derive(Debug, Serialize)]
 pub struct SolveJson {
     scenario: String,
@@ -425,7 +425,7 @@ pub fn run(path: &Path, o: Output, strict: bool, out: &mut dyn Write) -> Result<
                 let shown = v.map(|x| crate::units::to_display(dim, x, units));
                 w.write_record([
                     name.to_string(),
-                    shown.map_or(String::new(), |x| format!("{x}")),
+                    shown.map_or(String::new(), super::text::csv_number),
                     crate::units::unit_label(dim, units).to_string(),
                 ])
             };
@@ -447,7 +447,8 @@ pub fn run(path: &Path, o: Output, strict: bool, out: &mut dyn Write) -> Result<
             put("wetted radius", D::Length, json.wetted_radius_m)?;
             w.write_record([
                 "start margin".to_string(),
-                json.start_margin.map_or(String::new(), |m| format!("{m}")),
+                json.start_margin
+                    .map_or(String::new(), super::text::csv_number),
                 String::new(),
             ])?;
             w.write_record(["status", json.status, ""])?;

@@ -6,10 +6,10 @@ use std::path::Path;
 use serde::Serialize;
 
 use super::solve::headline;
-use super::text::TextTable;
+use super::text::{csv_number, TextTable};
 use super::{load_design, CliError, Format, Outcome, Output};
 use crate::physics::balance::{rpm, solve, torque_table, TableRow};
-use crate::units::{format_number, to_display, unit_label, Dimension as D, UnitSystem};
+use crate::units::{csv_key, format_number, to_display, unit_label, Dimension as D, UnitSystem};
 
 #[derive(Debug, Serialize)]
 struct RowJson {
@@ -59,6 +59,24 @@ pub fn headers(units: UnitSystem) -> Vec<String> {
     ]
 }
 
+/// CSV column names, in [`headers`] order: the JSON names with the unit of
+/// the values in the chosen system (`drive_torque_N_m`, `hub_pressure_psi`).
+pub fn csv_headers(units: UnitSystem) -> Vec<String> {
+    let t = |name: &str| csv_key(name, D::Torque, units);
+    vec![
+        "rpm".into(),
+        t("drive_torque"),
+        t("bearing"),
+        t("seal"),
+        t("brake"),
+        t("air"),
+        t("resisting_torque"),
+        t("net_torque"),
+        csv_key("total_flow", D::Flow, units),
+        csv_key("hub_pressure", D::Pressure, units),
+    ]
+}
+
 /// One row's numbers in display units, in header order.
 pub fn row_values(r: &TableRow, units: UnitSystem) -> Vec<f64> {
     let t = |v| to_display(D::Torque, v, units);
@@ -95,9 +113,9 @@ pub fn run(
         }
         Format::Csv => {
             let mut w = csv::Writer::from_writer(out);
-            w.write_record(headers(units))?;
+            w.write_record(csv_headers(units))?;
             for r in &rows {
-                w.write_record(row_values(r, units).iter().map(|v| format!("{v}")))?;
+                w.write_record(row_values(r, units).into_iter().map(csv_number))?;
             }
             w.flush()?;
         }

@@ -79,6 +79,17 @@ pub fn sig(value: Option<f64>, figures: usize) -> String {
     }
 }
 
+/// A number for a CSV cell: full precision, rounded to 12 significant
+/// figures so that a unit conversion leaves no last-bit noise
+/// (`0.30000000000000004` is written `0.3`). Relative change at most 5·10⁻¹².
+pub fn csv_number(value: f64) -> String {
+    if !value.is_finite() || value == 0.0 {
+        return format!("{value}");
+    }
+    let rounded: f64 = format!("{value:.11e}").parse().unwrap_or(value);
+    format!("{rounded}")
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -101,5 +112,14 @@ mod tests {
         assert_eq!(sig(Some(1234.5), 3), "1234");
         assert_eq!(sig(Some(f64::NAN), 3), "—");
         assert_eq!(sig(None, 3), "—");
+    }
+
+    #[test]
+    fn csv_numbers_lose_conversion_noise_only() {
+        assert_eq!(csv_number(0.1 + 0.2), "0.3");
+        assert_eq!(csv_number(29.999999999999996), "30");
+        assert_eq!(csv_number(0.123456789012345), "0.123456789012");
+        assert_eq!(csv_number(-1.5e-7), "-0.00000015");
+        assert_eq!(csv_number(0.0), "0");
     }
 }

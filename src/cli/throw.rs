@@ -5,14 +5,14 @@ use std::path::Path;
 
 use serde::Serialize;
 
-use super::text::TextTable;
+use super::text::{csv_number, TextTable};
 use super::{load_design, CliError, Format, Outcome, Output};
 use crate::physics::balance::solve;
 use crate::physics::coverage::{head_throw, head_wind_radii, HeadThrow};
 use crate::physics::design::Design;
 use crate::physics::pattern::{PatternOptions, WindRadii};
 use crate::units::{
-    format_number, format_quantity, to_display, unit_label, Dimension as D, UnitSystem,
+    csv_key, format_number, format_quantity, to_display, unit_label, Dimension as D, UnitSystem,
 };
 
 /// Profile sample spacing for reports, m.
@@ -252,32 +252,28 @@ pub fn run(
         }
         Format::Text => write!(out, "{}", throw_text(&design, &head, wind, units))?,
         Format::Csv => {
-            let len = unit_label(D::Length, units);
             let mut w = csv::Writer::from_writer(out);
             let mut header = vec![
-                format!("distance {len}"),
-                format!("rate {}", unit_label(D::ApplicationRate, units)),
-                format!("wetted radius {len}"),
+                csv_key("r", D::Length, units),
+                csv_key("rate", D::ApplicationRate, units),
+                csv_key("wetted_radius", D::Length, units),
             ];
             if wind.is_some() {
                 header.extend(
                     ["upwind", "downwind", "crosswind"]
-                        .map(|side| format!("wetted radius {side} {len}")),
+                        .map(|side| csv_key(&format!("wetted_radius_{side}"), D::Length, units)),
                 );
             }
             w.write_record(&header)?;
-            let shown = |v: f64| format!("{}", to_display(D::Length, v, units));
+            let shown = |v: f64| csv_number(to_display(D::Length, v, units));
             for p in head.throw.profile.sampled(PROFILE_STEP_M) {
                 let mut row = vec![
                     shown(p.r_m),
-                    format!(
-                        "{}",
-                        to_display(
-                            D::ApplicationRate,
-                            p.rate_mm_h / crate::physics::pattern::M_S_TO_MM_H,
-                            units
-                        )
-                    ),
+                    csv_number(to_display(
+                        D::ApplicationRate,
+                        p.rate_mm_h / crate::physics::pattern::M_S_TO_MM_H,
+                        units,
+                    )),
                     shown(head.throw.wetted_radius_m),
                 ];
                 if let Some(r) = wind {

@@ -30,10 +30,16 @@ pub struct Problem {
     pub value: String,
     /// What is wrong and what is allowed.
     pub rule: String,
+    /// The line of the field in the file (1-based), when the scenario was
+    /// read from text; `None` for a scenario built in memory.
+    pub line: Option<usize>,
 }
 
 impl fmt::Display for Problem {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        if let Some(line) = self.line {
+            write!(f, "line {line}: ")?;
+        }
         write!(f, "{} = {}: {}", self.path, self.value, self.rule)
     }
 }
@@ -103,6 +109,7 @@ impl Checker {
             path: path.to_string(),
             value: value.to_string(),
             rule: rule.into(),
+            line: None,
         });
     }
 

@@ -4,7 +4,7 @@
 //! [`Design`](crate::physics::design::Design) is what the physics core takes.
 //! This module sits between them and owns everything about files:
 //!
-//! - [`schema`]: the file's shape, field for field as `interface.md` fixes it.
+//! - [`schema`]: the file's shape, field for field as `docs/format.md` describes it.
 //! - [`tags`]: the unit tags (`mm(160)`, `kPa(280)`, `deg(22)`), one enum per
 //!   dimension, converted to SI once, at load.
 //! - [`load_str`] / [`load_file`]: parse, check the format version, validate
@@ -20,6 +20,7 @@
 //! is accepted there; a value out of range names its field path and the range.
 
 mod convert;
+mod locate;
 mod save;
 pub mod schema;
 mod starter;
@@ -72,6 +73,15 @@ pub enum ScenarioError {
         /// What is wrong and what was expected.
         message: String,
     },
+    /// The text is not a scenario at all: empty, only comments, or another
+    /// kind of file (a catch-can CSV, a note).
+    #[error("{origin}: {reason}; a scenario is RON text that starts with `Scenario(` (`spinwright new FILE` writes a commented starter)")]
+    NotAScenario {
+        /// The file name.
+        origin: String,
+        /// What the text is instead.
+        reason: String,
+    },
     /// The file was written by a newer spinwright.
     #[error(
         "{origin}: this file was written by a newer spinwright (scenario format version {found}); \
@@ -117,12 +127,25 @@ impl ScenarioError {
         }
     }
 
-    fn with_origin(self, name: &str) -> Self {
+    /// Names the file and, from its text, the line of each problem's field.
+    fn located(self, name: &str, text: &str) -> Self {
         match self {
-            ScenarioError::Invalid { problems, .. } => ScenarioError::Invalid {
-                origin: name.to_string(),
-                problems,
-            },
+            ScenarioError::Invalid { problems, .. } => {
+                let lines = locate::Lines::scan(text);
+                ScenarioError::Invalid {
+                    origin: name.to_string(),
+                    problems: Problems(
+                        problems
+                            .0
+                            .into_iter()
+                            .map(|p| Problem {
+                                line: lines.line_of(&p.path),
+                                ..p
+                            })
+                            .collect(),
+                    ),
+                }
+            }
             other => other,
         }
     }
@@ -143,6 +166,7 @@ struct VersionProbe {
 pub fn load_str(text: &str, origin: &str) -> Result<Scenario, ScenarioError> {
     // Some editors start a file with a byte-order mark; it is not content.
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+    not_a_scenario(text, origin)?;
     let options = ron::Options::default();
     if let Ok(VersionProbe {
         version: Some(found),
@@ -166,8 +190,47 @@ pub fn load_str(text: &str, origin: &str) -> Result<Scenario, ScenarioError> {
     }
 
     let scenario = parse(text, origin, &options)?;
-    scenario.to_design().map_err(|e| e.with_origin(origin))?;
+    scenario.to_design().map_err(|e| e.located(origin, text))?;
     Ok(scenario)
+}
+
+/// Refuses, in plain words, a text that cannot be a scenario, before the RON
+/// parser would describe it in its own terms (`expected (`, an `#![enable]`
+/// attribute).
+fn not_a_scenario(text: &str, origin: &str) -> Result<(), ScenarioError> {
+    let refuse = |reason: String| {
+        Err(ScenarioError::NotAScenario {
+            origin: origin.to_string(),
+            reason,
+        })
+    };
+    match locate::first_token(text) {
+        None if text.trim().is_empty() => refuse("the file is empty".to_string()),
+        None => refuse("the file holds only comments".to_string()),
+        // `Scenario(`, `(`, an attribute, or another `Name(` (which the
+        // parser then names: "expected `Scenario(…)`").
+        Some((_, first))
+            if first.starts_with('(')
+                || first.starts_with("#![")
+                || first
+                    .trim_start_matches(|c: char| c.is_alphanumeric() || c == '_')
+                    .trim_start()
+                    .starts_with('(') =>
+        {
+            Ok(())
+        }
+        Some((line, first)) => {
+            let shown: String = first.chars().take(40).collect();
+            let more = if first.chars().count() > 40 {
+                "…"
+            } else {
+                ""
+            };
+            refuse(format!(
+                "line {line}: this is not a scenario file (it starts with `{shown}{more}`)"
+            ))
+        }
+    }
 }
 
 fn parse(text: &str, origin: &str, options: &ron::Options) -> Result<Scenario, ScenarioError> {
@@ -239,9 +302,18 @@ fn next_token(text: &str, line: usize, column: usize) -> (usize, usize) {
 /// Reads and checks a scenario file.
 pub fn load_file(path: impl AsRef<Path>) -> Result<Scenario, ScenarioError> {
     let path = path.as_ref();
-    let text = std::fs::read_to_string(path).map_err(|io| ScenarioError::Read {
-        path: path.to_path_buf(),
-        io,
+    let text = std::fs::read_to_string(path).map_err(|io| {
+        if io.kind() == std::io::ErrorKind::InvalidData {
+            ScenarioError::NotAScenario {
+                origin: path.display().to_string(),
+                reason: "the file is not text (it is not UTF-8)".to_string(),
+            }
+        } else {
+            ScenarioError::Read {
+                path: path.to_path_buf(),
+                io,
+            }
+        }
     })?;
     load_str(&text, &path.display().to_string())
 }

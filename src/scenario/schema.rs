@@ -1,4 +1,4 @@
-//! The scenario file's shape, field for field as `interface.md` fixes it.
+//! The scenario file's shape, field for field as `docs/format.md` describes it.
 //!
 //! These types mirror the file, not the physics: every dimensional value keeps
 //! its unit tag, so a file read and written back says what its author wrote.

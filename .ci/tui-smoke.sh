@@ -15,7 +15,7 @@ command -v tmux >/dev/null || { echo "tui-smoke: tmux not found, skipped"; exit 
 # The test profile: after `cargo test` (as in .ci/run) this binary is already
 # built, so the smoke test adds no compile time.
 cargo build --quiet --profile test --bin spinwright
-bin="$PWD/target/debug/spinwright"
+bin="${CARGO_TARGET_DIR:-$PWD/target}/debug/spinwright"
 
 sock="spinwright-smoke-$$"
 session="smoke"
