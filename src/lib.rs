@@ -3,6 +3,7 @@
 //!
 //! - [`physics`]: the pure model (SI in, SI out).
 //! - [`units`]: quantities typed with units, and values shown in metric or US units.
+//! - [`words`]: typed results (practice cautions) in words, in the chosen units.
 //! - [`scenario`]: the scenario file (RON with unit tags), its validation into a
 //!   [`physics::design::Design`], writing a design back, and safe saving.
 //! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
@@ -30,3 +31,4 @@ pub mod physics;
 pub mod scenario;
 pub mod tui;
 pub mod units;
+pub mod words;

@@ -724,6 +724,7 @@ fn build_design(u: &[f64]) -> Design {
         site: Site {
             air_temperature_c: d.lin(-40.0, 60.0),
             altitude_m: d.lin(-500.0, 11_000.0),
+            clearance_m: None,
         },
         supply,
         rotor: Rotor {

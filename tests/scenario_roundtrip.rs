@@ -210,6 +210,7 @@ fn design() -> impl Strategy<Value = Design> {
                     site: Site {
                         air_temperature_c: air,
                         altitude_m: altitude,
+                        clearance_m: None,
                     },
                     supply,
                     rotor,

@@ -255,6 +255,15 @@ impl Scenario {
                 11_000.0,
                 "must be between -500 m and 11000 m (the standard atmosphere's troposphere)",
             ),
+            clearance_m: self.clearance.map(|h| {
+                c.between(
+                    "clearance",
+                    h,
+                    0.0,
+                    1000.0,
+                    "must be between 0 and 1000 m (the height of the lowest thing overhead)",
+                )
+            }),
         };
 
         let supply = match self.supply {
@@ -680,6 +689,7 @@ impl Scenario {
                 temperature: Temperature::in_system(design.site.air_temperature_c, u),
                 altitude: Length::large(design.site.altitude_m, u),
             },
+            clearance: design.site.clearance_m.map(|h| Length::large(h, u)),
             supply,
             rotor: schema::Rotor {
                 hub_radius: Length::small(design.rotor.hub_radius_m, u),

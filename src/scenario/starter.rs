@@ -104,6 +104,7 @@ mod tests {
                 "Rectangle(",
                 "Triangle(",
                 "wind:",
+                "clearance:",
                 "//",
             ] {
                 assert!(text.contains(word), "{system} starter lacks {word}");
