@@ -754,6 +754,50 @@ fn render(node: &Node) -> String {
     }
 }
 
+/// Lines written into a file are kept within this many columns where they can be.
+const WIDTH: usize = 96;
+
+/// [`render`], broken after the commas between a group's fields when the
+/// line starting at `column` would pass [`WIDTH`]; continuation lines line up
+/// after the opening parenthesis, as the shipped files write them.
+fn render_wrapped(node: &Node, column: usize, nl: &str) -> String {
+    let flat = render(node);
+    if column + flat.chars().count() <= WIDTH {
+        return flat;
+    }
+    let Kind::Group {
+        name,
+        body: Body::Fields(fields),
+        ..
+    } = &node.kind
+    else {
+        return flat;
+    };
+    let mut out = format!("{}(", name.as_deref().unwrap_or(""));
+    let indent = column + out.chars().count();
+    let mut col = indent;
+    for (k, f) in fields.iter().enumerate() {
+        let piece = format!("{}: {}", f.key, render(&f.value));
+        let len = piece.chars().count();
+        if k > 0 {
+            // The piece, then a comma or the closing parenthesis.
+            if col + 2 + len + 1 > WIDTH {
+                out.push(',');
+                out.push_str(nl);
+                out.push_str(&" ".repeat(indent));
+                col = indent;
+            } else {
+                out.push_str(", ");
+                col += 2;
+            }
+        }
+        out.push_str(&piece);
+        col += len;
+    }
+    out.push(')');
+    out
+}
+
 /// A text in double quotes, with the escapes RON reads.
 fn quote(t: &str) -> String {
     let mut s = String::with_capacity(t.len() + 2);
@@ -887,6 +931,12 @@ impl<'a> Editor<'a> {
             .map_or(self.src.len(), |i| pos + i + 1)
     }
 
+    /// The column of `pos` on its line, in characters.
+    fn column_of(&self, pos: usize) -> usize {
+        let ls = self.line_start(pos);
+        self.src.get(ls..pos).map_or(0, |s| s.chars().count())
+    }
+
     fn first_on_line(&self, pos: usize) -> bool {
         let ls = self.line_start(pos);
         self.src
@@ -996,7 +1046,10 @@ impl<'a> Editor<'a> {
                 };
                 self.list(*open, io, full_items, inew)?;
             }
-            _ => self.replace(old.start, old.end, render(new)),
+            _ => {
+                let column = self.column_of(old.start);
+                self.replace(old.start, old.end, render_wrapped(new, column, self.nl));
+            }
         }
         Ok(())
     }
@@ -1041,9 +1094,25 @@ impl<'a> Editor<'a> {
             }
         }
         for (anchor, group) in inserts {
+            // Where the new entries' text starts on its line (for wrapping).
+            let column = match anchor {
+                Some(a) => {
+                    let e = self.entry(a.key_start, a.value.end);
+                    if self.on_own_lines(&e) {
+                        self.column_of(a.key_start)
+                    } else {
+                        self.column_of(e.end()) + 1
+                    }
+                }
+                None => old.first().map_or(0, |f| self.column_of(f.key_start)),
+            };
             let texts: Vec<String> = group
                 .iter()
-                .map(|f| format!("{}: {}", f.key, render(&f.value)))
+                .map(|f| {
+                    let key = format!("{}: ", f.key);
+                    let at = column + key.chars().count();
+                    format!("{key}{}", render_wrapped(&f.value, at, self.nl))
+                })
                 .collect();
             match anchor {
                 Some(a) => {

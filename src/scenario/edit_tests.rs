@@ -341,7 +341,11 @@ fn a_new_kind_of_value_replaces_the_old_one() {
         UnitSystem::Metric,
     );
     assert!(
-        out.contains("bearing: Washer(mu_kinetic: 0.1, mu_static: 0.15, inner: mm(4), outer: mm(8), thrust_area: mm2(80), rotor_mass: g(100), radius_rule: UniformWear) /* inline */"),
+        // Too long for one line: wrapped after a comma, lined up after `(`.
+        out.contains(
+            "  friction: (bearing: Washer(mu_kinetic: 0.1, mu_static: 0.15, inner: mm(4), outer: mm(8),\n\
+             \x20                            thrust_area: mm2(80), rotor_mass: g(100), radius_rule: UniformWear) /* inline */,\n"
+        ),
         "{out}"
     );
 }
