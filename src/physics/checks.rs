@@ -179,7 +179,8 @@ pub fn cautions(
             .enumerate()
             .map(|(k, n)| (k, n.nozzle_pressure_pa))
             .filter(|(_, p)| p.is_finite())
-            .max_by(|a, b| a.1.total_cmp(&b.1));
+            // The first of equal ones: arm 1 of a symmetric rotor.
+            .reduce(|a, b| if b.1 > a.1 { b } else { a });
         if let Some((arm, p)) = worst {
             if inlet > 0.0 && p > rules.max_spin_pressure_ratio * inlet {
                 out.push(Caution::SpinPressure {
@@ -205,7 +206,8 @@ pub fn cautions(
             .iter()
             .enumerate()
             .filter_map(|(k, p)| p.map(|p| (k, p)))
-            .max_by(|a, b| a.1.total_cmp(&b.1));
+            // The first of equal ones: arm 1 of a symmetric rotor.
+            .reduce(|a, b| if b.1 > a.1 { b } else { a });
         if let Some((arm, peak)) = highest {
             if peak > clearance {
                 out.push(Caution::AboveClearance {
