@@ -479,7 +479,16 @@ pub fn run_target(
             // The notes are the user's: kept as written. Only the adjusted
             // value's text changes in the file.
             let new = Scenario::from_design(&result.design, units, &source.notes);
-            save_scenario(p, Some(&original), &new)?;
+            let saved = save_scenario(p, Some(&original), &new)?;
+            if let scenario::Written::Rewritten(why) = &saved.written {
+                // Rare (the text could not be edited in place): say so, as
+                // the file's comments did not survive.
+                eprintln!(
+                    "note: {} was written anew, without the comments of {}: {why}",
+                    p.display(),
+                    path.display()
+                );
+            }
             Some(p.display().to_string())
         }
         None => None,
