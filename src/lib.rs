@@ -7,6 +7,7 @@
 //!   range, nudge step, get/set; validation, the editable list, sweeps, targets
 //!   and comparisons are derived from it.
 //! - [`inverse`]: sweeps, target searches and comparisons over catalogue inputs.
+//! - [`words`]: typed results (practice cautions) in words, in the chosen units.
 //! - [`scenario`]: the scenario file (RON with unit tags), its validation into a
 //!   [`physics::design::Design`], writing a design back, and safe saving.
 //! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
@@ -39,3 +40,4 @@ pub mod rate_map;
 pub mod scenario;
 pub mod tui;
 pub mod units;
+pub mod words;

@@ -1292,3 +1292,88 @@ fn csv_and_text_honour_the_unit_system() {
         "{out}"
     );
 }
+
+#[test]
+fn target_out_keeps_the_files_comments_and_notes() {
+    let dir = tempfile::tempdir().unwrap();
+    let out_path = dir.path().join("tuned.ron");
+    let file = scenario("field-arm.ron");
+    let original = std::fs::read_to_string(&file).unwrap();
+    let out = bin()
+        .args([
+            "target",
+            file.to_str().unwrap(),
+            "--rpm",
+            "20",
+            "--adjust",
+            "brake",
+            "--units",
+            "us",
+            "--out",
+        ])
+        .arg(&out_path)
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let written = std::fs::read_to_string(&out_path).unwrap();
+    let (a, b): (Vec<&str>, Vec<&str>) = (original.lines().collect(), written.lines().collect());
+    assert_eq!(a.len(), b.len(), "{written}");
+    let changed: Vec<_> = a.iter().zip(&b).filter(|(x, y)| x != y).collect();
+    // Only the brake line: comments, notes and the file's metric units stay.
+    assert_eq!(changed.len(), 1, "{changed:#?}");
+    assert!(
+        changed[0]
+            .0
+            .contains("brake: (viscous: 0.0, quadratic: 1.6)"),
+        "{changed:?}"
+    );
+    assert!(changed[0].1.contains("quadratic: 1.6)"), "{changed:?}");
+    assert!(written
+        .contains("notes: \"Agricultural rotating arm on 35 m of 19 mm hose, fluid brake.\""));
+}
+
+#[test]
+fn solve_warns_of_a_jet_above_the_stated_clearance() {
+    let file = scenario("field-arm.ron");
+    let run = |args: &[&str]| {
+        let out = bin().arg("solve").arg(&file).args(args).output().unwrap();
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        String::from_utf8(out.stdout).unwrap()
+    };
+    let quiet = run(&["--format", "json"]);
+    let v: serde_json::Value = serde_json::from_str(&quiet).unwrap();
+    assert_eq!(v["warnings"], serde_json::json!([]), "{quiet}");
+    // A clearance of 1.5 m: the field arm's nozzles alone stand at 1.2 m.
+    let low = run(&["--clearance", "1.5m", "--format", "json"]);
+    let v: serde_json::Value = serde_json::from_str(&low).unwrap();
+    let w = v["warnings"].as_array().unwrap();
+    assert_eq!(w.len(), 1, "{low}");
+    assert!(
+        w[0].as_str()
+            .unwrap()
+            .contains("above the stated clearance of 1.50 m"),
+        "{low}"
+    );
+    let text = run(&["--clearance", "5ft", "--units", "us"]);
+    assert!(
+        text.contains("above the stated clearance of 5.00 ft"),
+        "{text}"
+    );
+    // A clearance that is no height is refused.
+    let out = bin()
+        .arg("solve")
+        .arg(&file)
+        .args(["--clearance", "0m"])
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("--clearance"));
+}

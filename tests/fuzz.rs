@@ -245,6 +245,26 @@ fn check_saves(design: &Design) -> Result<(), String> {
     Ok(())
 }
 
+/// A loadable text saved over with an edited design: edited in place (never
+/// written anew), and it reads back as the edited design.
+fn check_edits(text: &str, design: &Design, notes: &str) -> Result<(), String> {
+    let mut d = design.clone();
+    if let Some(a) = d.rotor.arms.first_mut() {
+        a.radius_m *= 1.01;
+    }
+    d.wind.speed_m_s += 0.5;
+    for units in [UnitSystem::Metric, UnitSystem::Us] {
+        let new = Scenario::from_design(&d, units, notes);
+        let out = scenario::edit_in_place(text, &new)
+            .map_err(|e| format!("a loadable file was not edited in place: {e}"))?;
+        if new.to_design().is_ok() {
+            scenario::load_str(&out, "edited")
+                .map_err(|e| format!("an edited file does not load: {e:#}\n{out}"))?;
+        }
+    }
+    Ok(())
+}
+
 /// One scenario text through the whole chain.
 pub fn check_scenario_text(text: &str) -> Result<(), String> {
     let scenario = match scenario::load_str(text, "fuzz.ron") {
@@ -255,6 +275,7 @@ pub fn check_scenario_text(text: &str) -> Result<(), String> {
         .to_design()
         .map_err(|e| format!("load_str accepted a scenario to_design refuses: {e}"))?;
     check_saves(&design)?;
+    check_edits(text, &design, &scenario.notes)?;
     check_design(&design)?;
     check_cli(text, &design.name, design.layout.is_some())
 }
@@ -736,6 +757,7 @@ fn build_design(u: &[f64]) -> Design {
         site: Site {
             air_temperature_c: d.lin(-40.0, 60.0),
             altitude_m: d.lin(-500.0, 11_000.0),
+            clearance_m: None,
         },
         supply,
         rotor: Rotor {

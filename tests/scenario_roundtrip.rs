@@ -1,9 +1,10 @@
-//! Property test: any valid design survives being written as a scenario
-//! file (in either unit system) and read back, to 1e-9 relative.
+//! Property tests: any valid design survives being written as a scenario
+//! file (in either unit system) and read back, to 1e-9 relative; and a file
+//! saved over with any other design (edited in place) reads back as that one.
 
 use proptest::prelude::*;
 use spinwright::physics::design::*;
-use spinwright::scenario::{load_str, Scenario};
+use spinwright::scenario::{edit_in_place, load_str, Scenario};
 use spinwright::units::UnitSystem;
 
 use crate::support::assert_designs_close;
@@ -231,6 +232,7 @@ fn design() -> impl Strategy<Value = Design> {
                     site: Site {
                         air_temperature_c: air,
                         altitude_m: altitude,
+                        clearance_m: None,
                     },
                     supply,
                     rotor,
@@ -262,5 +264,28 @@ proptest! {
         prop_assert_eq!(&back.notes, "notes with \"quotes\"\nand a new line");
         let again = back.to_design().map_err(|e| TestCaseError::fail(e.to_string()))?;
         assert_designs_close(&d, &again, 1e-9);
+    }
+
+    #[test]
+    fn any_design_saved_over_another_file_reads_back_as_itself(
+        a in design(),
+        b in design(),
+        a_us in any::<bool>(),
+        b_us in any::<bool>(),
+    ) {
+        let unit = |us: bool| if us { UnitSystem::Us } else { UnitSystem::Metric };
+        // A file written for design a, with a comment; saved over with design b.
+        let text = format!(
+            "// kept\n{}",
+            Scenario::from_design(&a, unit(a_us), "a's notes").to_ron_string()
+        );
+        let new = Scenario::from_design(&b, unit(b_us), "a's notes");
+        let out = edit_in_place(&text, &new)
+            .map_err(|e| TestCaseError::fail(format!("{e}\n{text}")))?;
+        prop_assert!(out.starts_with("// kept\n"));
+        let back = load_str(&out, "edited")
+            .map_err(|e| TestCaseError::fail(format!("{e}\n{out}")))?;
+        let again = back.to_design().map_err(|e| TestCaseError::fail(e.to_string()))?;
+        assert_designs_close(&b, &again, 1e-9);
     }
 }

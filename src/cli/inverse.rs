@@ -24,7 +24,7 @@ use crate::physics::field::{
 };
 use crate::physics::layout::OverlapOptions;
 use crate::physics::pattern::PatternOptions;
-use crate::scenario::{save_atomic, Scenario};
+use crate::scenario::{self, save_scenario, Scenario};
 use crate::units::{csv_key, format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
 
 /// The dimension an input's values are typed in, `None` for a bare number
@@ -493,7 +493,13 @@ pub fn run_target(
     o: Output,
     out: &mut dyn Write,
 ) -> Result<Outcome, CliError> {
-    let design = load_design(path)?;
+    // The file's text is kept: `--out` edits it in place (comments and notes kept).
+    let original = std::fs::read_to_string(path).map_err(|io| scenario::ScenarioError::Read {
+        path: path.to_path_buf(),
+        io,
+    })?;
+    let source = scenario::load_str(&original, &path.display().to_string())?;
+    let design = source.to_design()?;
     let adjust = catalogue::by_adjust_name(&args.adjust).ok_or_else(|| {
         CliError::Usage(format!(
             "--adjust {}: choose one of {}",
@@ -523,14 +529,19 @@ pub fn run_target(
     let units: UnitSystem = o.units.into();
     let written = match &args.out {
         Some(p) => {
-            let notes = format!(
-                "{} adjusted by spinwright target: {} = {}",
-                design.name,
-                adjust.vary_name(),
-                show_adjust(adjust, result.value, UnitSystem::Metric)
-            );
-            let text = Scenario::from_design(&result.design, units, &notes).to_ron_string();
-            save_atomic(p, &text)?;
+            // The notes are the user's: kept as written. Only the adjusted
+            // value's text changes in the file.
+            let new = Scenario::from_design(&result.design, units, &source.notes);
+            let saved = save_scenario(p, Some(&original), &new)?;
+            if let scenario::Written::Rewritten(why) = &saved.written {
+                // Rare (the text could not be edited in place): say so, as
+                // the file's comments did not survive.
+                eprintln!(
+                    "note: {} was written anew, without the comments of {}: {why}",
+                    p.display(),
+                    path.display()
+                );
+            }
             Some(p.display().to_string())
         }
         None => None,

@@ -46,6 +46,10 @@ pub enum Command {
         /// Exit with status 1 when the design stalls or finds no equilibrium.
         #[arg(long)]
         strict: bool,
+        /// Height of the lowest thing overhead (wire, branch, roof), e.g. 4m or
+        /// 13ft: warn when a jet rises above it (overrides the file's `clearance`).
+        #[arg(long, value_name = "HEIGHT")]
+        clearance: Option<String>,
     },
     /// Torque–speed table from rest to past runaway.
     Table {
@@ -302,7 +306,23 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             file,
             out: o,
             strict,
-        } => solve::run(&file, o, strict, out),
+            clearance,
+        } => {
+            let clearance_m = clearance
+                .map(|c| {
+                    let h = quantity("--clearance", crate::units::Dimension::Length, &c)?;
+                    if h > 0.0 {
+                        Ok(h)
+                    } else {
+                        Err(CliError::Usage(format!(
+                            "--clearance {c}: give the height above ground of the lowest thing \
+                             overhead, more than zero (e.g. 4m or 13ft)"
+                        )))
+                    }
+                })
+                .transpose()?;
+            solve::run(&file, o, strict, clearance_m, out)
+        }
         Command::Table {
             file,
             points,

@@ -8,6 +8,7 @@ use serde::Serialize;
 use super::text::TextTable;
 use super::{load_design, CliError, Format, Outcome, Output};
 use crate::physics::balance::{rpm, solve, SpinReport, SpinStatus};
+use crate::physics::checks::{cautions, peak_heights_m, Caution, Rules};
 use crate::physics::coverage::{head_throw, HeadThrow};
 use crate::physics::design::Design;
 use crate::physics::hydraulics::SupplyState;
@@ -126,6 +127,22 @@ pub fn throws(head: Option<&HeadThrow>, arms: usize) -> (Vec<Option<f64>>, Optio
     }
 }
 
+/// The practice checks of a solved design (see [`crate::physics::checks`]).
+/// The drop paths are flown for their peak height only when the design
+/// states an overhead clearance.
+pub fn practice_cautions(
+    design: &Design,
+    report: &SpinReport,
+    head: Option<&HeadThrow>,
+) -> Vec<Caution> {
+    let rules = Rules::for_design(design);
+    let peaks = match (rules.clearance_m, head) {
+        (Some(_), Some(h)) => Some(peak_heights_m(design, h, &PatternOptions::default().flight)),
+        _ => None,
+    };
+    cautions(design, report, peaks.as_deref(), &rules)
+}
+
 /// Build the JSON report.
 pub fn solve_json(design: &Design, report: &SpinReport, head: Option<&HeadThrow>) -> SolveJson {
     let (nozzle_throws, wetted) = throws(head, design.rotor.arms.len());
@@ -198,7 +215,16 @@ pub fn solve_json(design: &Design, report: &SpinReport, head: Option<&HeadThrow>
             t99: s.t99_s,
         }),
         wetted_radius_m: wetted,
-        warnings: report.warnings.iter().map(ToString::to_string).collect(),
+        warnings: report
+            .warnings
+            .iter()
+            .map(ToString::to_string)
+            .chain(
+                practice_cautions(design, report, head)
+                    .iter()
+                    .map(|c| crate::words::caution(c, UnitSystem::Metric)),
+            )
+            .collect(),
     }
 }
 
@@ -243,6 +269,12 @@ pub fn solve_text(
     s.push_str(&format!("{}: {}\n", design.name, headline(report, units)));
     for w in &report.warnings {
         s.push_str(&format!("  warning: {w}\n"));
+    }
+    for c in practice_cautions(design, report, head) {
+        s.push_str(&format!(
+            "  warning: {}\n",
+            crate::words::caution(&c, units)
+        ));
     }
     s.push('\n');
     if let Some(op) = &report.operating {
@@ -401,8 +433,17 @@ pub fn solve_with_throw(design: &Design) -> (SpinReport, Option<HeadThrow>) {
 }
 
 /// Run `solve`.
-pub fn run(path: &Path, o: Output, strict: bool, out: &mut dyn Write) -> Result<Outcome, CliError> {
-    let design = load_design(path)?;
+pub fn run(
+    path: &Path,
+    o: Output,
+    strict: bool,
+    clearance_m: Option<f64>,
+    out: &mut dyn Write,
+) -> Result<Outcome, CliError> {
+    let mut design = load_design(path)?;
+    if clearance_m.is_some() {
+        design.site.clearance_m = clearance_m;
+    }
     let (report, head) = solve_with_throw(&design);
     let head = head.as_ref();
     match o.format {

@@ -44,6 +44,9 @@ pub struct Site {
     pub air_temperature_c: f64,
     /// Altitude above mean sea level, m (sets air pressure, ISA troposphere).
     pub altitude_m: f64,
+    /// Height above ground of the lowest thing over the watered area (a wire,
+    /// a branch, a roof), m, when stated: jets should stay below it.
+    pub clearance_m: Option<f64>,
 }
 
 /// The water supply (model.md M4).

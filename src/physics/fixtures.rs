@@ -47,6 +47,7 @@ pub fn symmetric_rotor(
         site: Site {
             air_temperature_c: 20.0,
             altitude_m: 0.0,
+            clearance_m: None,
         },
         supply,
         rotor: Rotor {

@@ -13,12 +13,14 @@
 //! - [`spray`]: drop-size spectrum per nozzle, calibration to a measured throw (M8).
 //! - [`pattern`]: radial application profile and the 2-D pattern in wind (M8).
 //! - [`layout`]: head layouts, overlap, CU / DU and the soil-intake check (M9).
+//! - [`checks`]: practice checks of a solved design (start margin, speed, spin-up, clearance).
 //! - [`coverage`]: the spin state handed to throw, pattern and layout (M6 → M7–M9).
 //! - [`root`]: bracketed root finding with the bracket kept for reports.
 //! - [`field`]: field check, readings at a running sprinkler against its design (M10).
 
 pub mod balance;
 pub mod breakup;
+pub mod checks;
 pub mod coverage;
 pub mod design;
 pub mod field;

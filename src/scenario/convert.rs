@@ -261,6 +261,9 @@ impl Scenario {
         let site = d::Site {
             air_temperature_c: c.input(&cat::AIR_TEMPERATURE, None, self.air.temperature),
             altitude_m: c.input(&cat::ALTITUDE, None, self.air.altitude),
+            clearance_m: self
+                .clearance
+                .map(|h| c.input(&cat::CLEARANCE, None, h)),
         };
 
         let supply = match self.supply {
@@ -699,6 +702,7 @@ impl Scenario {
                 temperature: Temperature::in_system(design.site.air_temperature_c, u),
                 altitude: Length::large(design.site.altitude_m, u),
             },
+            clearance: design.site.clearance_m.map(|h| Length::large(h, u)),
             supply,
             rotor: schema::Rotor {
                 hub_radius: Length::small(design.rotor.hub_radius_m, u),

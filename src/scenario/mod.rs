@@ -12,6 +12,9 @@
 //! - [`Scenario::from_design`] and [`Scenario::to_ron_string`]: write a design
 //!   back in metric or US units; it re-loads to the same design.
 //! - [`starter_text`]: a commented starter file for `spinwright new`.
+//! - [`save_scenario`] / [`scenario_text`]: save a design over the text it was
+//!   read from, changing only the values that changed (comments, order,
+//!   blank lines and notes kept; see [`edit_in_place`]).
 //! - [`save_atomic`]: write a file so a crash or a full disk never leaves a
 //!   half-written scenario, keeping the previous version as `FILE.bak`.
 //!
@@ -21,6 +24,7 @@
 
 mod convert;
 mod locate;
+mod edit;
 mod save;
 pub mod schema;
 mod starter;
@@ -32,6 +36,7 @@ use std::path::{Path, PathBuf};
 use serde::Deserialize;
 
 pub use convert::{Problem, Problems};
+pub use edit::{edit_in_place, save_scenario, scenario_text, EditError, ScenarioText, Written};
 pub use save::save_atomic;
 pub use schema::{Scenario, FORMAT_VERSION};
 pub use starter::starter_text;
@@ -382,7 +387,7 @@ fn tags_for_field(field: &str) -> Option<(&'static str, &'static [&'static str])
     Some(match last {
         "hub_radius" | "inlet_bore" | "radius" | "height" | "rise" | "bore" | "outer"
         | "roughness" | "length" | "diameter" | "tube_wall" | "inner" | "altitude" | "lift"
-        | "spacing" | "rows" => ("a length", Length::TAGS),
+        | "spacing" | "rows" | "clearance" => ("a length", Length::TAGS),
         "source" | "Pressure" => ("a pressure", Pressure::TAGS),
         "Flow" => ("a flow", FlowRate::TAGS),
         "azimuth" | "elevation" | "deflection" | "from" => ("an angle", Angle::TAGS),

@@ -42,6 +42,14 @@ pub struct Scenario {
     /// Air at the site (optional).
     #[serde(default)]
     pub air: Air,
+    /// Height of the lowest thing over the watered area (a wire, a branch, a
+    /// roof), optional: jets whose drop paths rise above it are warned of.
+    #[serde(
+        default,
+        skip_serializing_if = "Option::is_none",
+        with = "implicit_some"
+    )]
+    pub clearance: Option<Length>,
     /// How water reaches the sprinkler.
     pub supply: Supply,
     /// The rotating part.

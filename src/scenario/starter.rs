@@ -130,6 +130,7 @@ mod tests {
                 "Rectangle(",
                 "Triangle(",
                 "wind:",
+                "clearance:",
                 "//",
             ] {
                 assert!(text.contains(word), "{system} starter lacks {word}");

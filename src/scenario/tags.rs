@@ -69,6 +69,15 @@ macro_rules! unit_tag {
                 }
             }
 
+            /// The value `number` written with the tag `tag` (`"mm"`, `"in"`),
+            /// or None when this dimension has no such tag.
+            pub fn from_tag(tag: &str, number: f64) -> Option<Self> {
+                $( if tag == unraw(stringify!($variant)) {
+                    return Some($name::$variant(number));
+                } )+
+                None
+            }
+
             /// The same unit as `self`, holding the SI value `si` (rounded to
             /// 12 significant figures so it reads cleanly in a file).
             pub fn with_si(self, si: f64) -> Self {

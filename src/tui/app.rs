@@ -27,6 +27,7 @@ use super::worker::{Done, Job, SprayResult, Worker};
 use crate::catalogue;
 use crate::inverse::compare::Comparison;
 use crate::physics::balance::{solve, table_top_speed, SpinModel, SpinReport, TableRow};
+use crate::physics::checks::{cautions, Caution, Rules};
 use crate::physics::design::{Bearing, Design, Washer, WasherRule};
 use crate::physics::field::{FieldCheck, FieldReading, FlowReading, RotationReading, ThrowReading};
 use crate::scenario::{self, Scenario, ScenarioError};
@@ -265,6 +266,9 @@ pub struct App {
     pub path: Option<PathBuf>,
     /// The file's text as last read or written (to notice changes on disk).
     disk_text: Option<String>,
+    /// The text the design was read from (its file's, or the built-in
+    /// example's): saving edits it in place, keeping its comments.
+    source_text: Option<String>,
     /// Edited since last saved.
     pub dirty: bool,
     /// Spin solution of the design.
@@ -342,7 +346,11 @@ impl App {
                 let sc = scenario::load_str(&text, &p.display().to_string())?;
                 App::from_scenario(sc, Some(p.to_path_buf()), Some(text))
             }
-            None => App::from_scenario(scenario::builtin_example(), None, None),
+            None => {
+                let mut app = App::from_scenario(scenario::builtin_example(), None, None)?;
+                app.source_text = Some(scenario::BUILTIN_EXAMPLE.to_string());
+                Ok(app)
+            }
         }
     }
 
@@ -360,6 +368,7 @@ impl App {
             design,
             notes: sc.notes.clone(),
             path,
+            source_text: disk_text.clone(),
             disk_text,
             dirty: false,
             report,
@@ -389,6 +398,22 @@ impl App {
         app.selected = app.first_field_from(0, true);
         app.request_spray();
         Ok(app)
+    }
+
+    /// The practice checks of the design (speed, start margin, spin-up,
+    /// and, once the drop paths are flown, the overhead clearance).
+    pub fn cautions(&self) -> Vec<Caution> {
+        let rules = Rules::for_design(&self.design);
+        let peaks: Option<Vec<Option<f64>>> = self.spray.as_ref().map(|s| {
+            let mut peaks = vec![None; self.design.rotor.arms.len()];
+            for (arm, paths) in s.arms.iter().zip(&s.paths) {
+                if let (Some(slot), Some(p)) = (peaks.get_mut(*arm), paths) {
+                    *slot = Some(p.largest.landing.apex_m);
+                }
+            }
+            peaks
+        });
+        cautions(&self.design, &self.report, peaks.as_deref(), &rules)
     }
 
     /// The selected field.
@@ -1142,15 +1167,20 @@ impl App {
                 return;
             }
         }
-        let text = Scenario::from_design(&self.design, self.units, &self.notes).to_ron_string();
-        match scenario::save_atomic(&path, &text) {
-            Ok(()) => {
-                self.info(format!(
-                    "saved {} ({} units)",
-                    path.display(),
-                    self.units_word()
-                ));
+        let new = Scenario::from_design(&self.design, self.units, &self.notes);
+        match scenario::save_scenario(&path, self.source_text.as_deref(), &new) {
+            Ok(saved) => {
+                let how = match &saved.written {
+                    scenario::Written::InPlace => "changed values only, comments kept".to_string(),
+                    scenario::Written::Fresh => format!("{} units", self.units_word()),
+                    scenario::Written::Rewritten(why) => {
+                        format!("written anew in {} units: {why}", self.units_word())
+                    }
+                };
+                self.info(format!("saved {} ({how})", path.display()));
                 self.path = Some(path);
+                let text = saved.text;
+                self.source_text = Some(text.clone());
                 self.disk_text = Some(text);
                 self.dirty = false;
             }
@@ -1208,6 +1238,7 @@ impl App {
                 self.design = design;
                 self.notes = sc.notes;
                 self.path = Some(path.to_path_buf());
+                self.source_text = Some(text.clone());
                 self.disk_text = Some(text);
                 self.dirty = false;
                 self.selected = 0;

@@ -149,18 +149,19 @@ fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
     a.event(&Event::Resize(80, 24));
     let before = op_rpm(&a);
 
-    // Select arm 1's deflection and nudge it up 1° twice, then coarse down 10°.
+    // Select arm 1's deflection and nudge it down 1° twice, then coarse down 10°.
     let defl = Field::on_arm(&cat::DEFLECTION, 0);
     select(&mut a, defl);
     let d0 = a.design.rotor.arms[0].nozzle.deflection_rad.to_degrees();
-    a.event(&key(KeyCode::Right));
-    a.event(&key(KeyCode::Right));
+    a.event(&key(KeyCode::Left));
+    a.event(&key(KeyCode::Left));
     let d1 = a.design.rotor.arms[0].nozzle.deflection_rad.to_degrees();
-    assert!((d1 - (d0 + 2.0)).abs() < 1e-9, "{d0} → {d1}");
-    // A coarse step is 10° and lands on a multiple of it: 17° → 10°.
+    assert!((d1 - (d0 - 2.0)).abs() < 1e-9, "{d0} → {d1}");
+    // A coarse step is 10° and lands on a multiple of it: 78° → 70°.
     a.event(&shift(KeyCode::Left));
     let d2 = a.design.rotor.arms[0].nozzle.deflection_rad.to_degrees();
-    assert!((d2 - 10.0).abs() < 1e-9, "{d1} → {d2}");
+    let want = ((d1 / 10.0).ceil() - 1.0) * 10.0;
+    assert!((d2 - want).abs() < 1e-9, "{d1} → {d2}");
     assert!(a.dirty);
     // Less deflection points the jet further back: more torque, faster.
     assert!(op_rpm(&a) > before, "{} vs {before}", op_rpm(&a));
@@ -675,4 +676,59 @@ fn tiny_and_odd_terminal_sizes_draw_without_panicking() {
         screen(&mut a, w, h);
         a.event(&key(KeyCode::Esc));
     }
+}
+
+#[test]
+fn saving_changes_only_the_edited_value_and_keeps_every_comment() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("lawn.ron");
+    std::fs::write(&path, scenario::BUILTIN_EXAMPLE).unwrap();
+    let mut a = App::open(Some(&path)).unwrap();
+    // Shown in US units; the file stays in its own units.
+    a.event(&key(KeyCode::Char('u')));
+    select(&mut a, Field::of(&cat::INLET_PRESSURE));
+    a.event(&key(KeyCode::Right));
+    assert!(a.dirty);
+    a.event(&key(KeyCode::Char('s')));
+    assert!(!a.dirty, "{:?}", a.message);
+    let msg = a.message.clone().unwrap().text;
+    assert!(msg.contains("comments kept"), "{msg}");
+    let text = std::fs::read_to_string(&path).unwrap();
+    let before: Vec<&str> = scenario::BUILTIN_EXAMPLE.lines().collect();
+    let after: Vec<&str> = text.lines().collect();
+    assert_eq!(before.len(), after.len());
+    let changed: Vec<(&&str, &&str)> = before.iter().zip(&after).filter(|(x, y)| x != y).collect();
+    assert_eq!(changed.len(), 1, "{changed:#?}");
+    assert!(
+        changed[0].1.contains("supply: Pressure(kPa("),
+        "{changed:?}"
+    );
+
+    // Save as: the new file keeps the comments too.
+    let other = dir.path().join("copy.ron");
+    a.event(&key(KeyCode::Char('S')));
+    clear_input(&mut a);
+    typed(&mut a, &other.display().to_string());
+    a.event(&key(KeyCode::Enter));
+    assert_eq!(std::fs::read_to_string(&other).unwrap(), text);
+    assert!(a.settle(SETTLE));
+}
+
+#[test]
+fn practice_warnings_show_in_the_status_line_and_the_balance_view() {
+    // The old starter: unbraked, nozzles 15° off straight back, 2,050 rpm.
+    let text = scenario::starter_text(UnitSystem::Metric)
+        .replace("deflection: deg(70)", "deflection: deg(15)")
+        .replace("viscous: 0.005", "viscous: 0.0");
+    let sc = scenario::load_str(&text, "fast").unwrap();
+    let mut a = App::from_scenario(sc, None, None).unwrap();
+    assert!(a.settle(SETTLE));
+    let keys: Vec<&str> = a.cautions().iter().map(|c| c.key()).collect();
+    assert_eq!(keys, ["fast_spin", "fast_tip", "spin_pressure"]);
+    let s = screen(&mut a, 160, 48);
+    let top = s.lines().next().unwrap();
+    assert!(top.contains("rpm ⚠ 3 warnings"), "{top}");
+    assert!(s.contains("⚠ runs at 2049 rpm"), "{s}");
+    let s = screen(&mut a, 80, 24);
+    assert!(s.lines().next().unwrap().contains("rpm ⚠ 3"), "{s}");
 }

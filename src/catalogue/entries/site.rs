@@ -197,6 +197,26 @@ catalogue! {
         },
         step(50.0),
         |d| Some(d.site.altitude_m), |d, v| { d.site.altitude_m = v; true });
+    /// Height of the lowest thing overhead (or none).
+    CLEARANCE = Input {
+        path: "clearance",
+        label: "overhead clearance",
+        help: "height of the lowest thing overhead (lines, eaves): jets peaking above it are warned of",
+        group: Group::Site,
+        unit: Unit::Dim(D::Length),
+        access: Access::Optional {
+            get: |d| Some(d.site.clearance_m),
+            set: |d, v| { d.site.clearance_m = v; true },
+        },
+        range: Range::Between {
+            lo: 0.0,
+            hi: 1000.0,
+            rule: "must be between 0 and 1000 m (the height of the lowest thing overhead)",
+        },
+        step: step(0.5),
+        vary: None,
+        editable: true,
+    };
     /// Wind speed.
     WIND_SPEED = Input {
         vary: Some(Vary { name: "wind", key: "wind_m_s", how: How::Field, search: None, aliases: &[] }),

@@ -73,6 +73,12 @@ fn summary(app: &App) -> Vec<Line<'static>> {
     for w in &r.warnings {
         lines.push(Line::styled(format!("⚠ {w}"), t.warning()));
     }
+    for c in app.cautions() {
+        lines.push(Line::styled(
+            format!("⚠ {}", crate::words::caution(&c, app.units)),
+            t.warning(),
+        ));
+    }
     lines
 }
 

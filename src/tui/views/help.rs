@@ -41,7 +41,7 @@ pub const KEYS: &[(&str, &str)] = &[
     ("c", "pin the current design for Compare"),
     ("x", "Compare view: drop the last pinned design"),
     ("u", "switch between metric and US units"),
-    ("s  S", "save / save as (the old file is kept as .bak)"),
+    ("s  S", "save / save as: only changed values change, comments stay; the old file is kept as .bak"),
     (
         "o",
         "open a scenario from scenarios/ or this folder (c there: add to Compare)",

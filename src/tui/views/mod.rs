@@ -96,9 +96,24 @@ fn draw_top(app: &App, frame: &mut Frame, area: Rect) {
         spans.push(Span::styled(" ● unsaved", t.warning()));
     }
     let sep = || Span::styled(" │ ", t.dim());
+    spans.extend([sep(), Span::raw(speed_word(app))]);
+    // The count of warnings (the solver's and the practice checks'), listed
+    // in the Balance view.
+    let warnings = app.report.warnings.len() + app.cautions().len();
+    if warnings > 0 {
+        spans.push(Span::styled(
+            if wide {
+                format!(
+                    " ⚠ {warnings} warning{}",
+                    if warnings == 1 { "" } else { "s" }
+                )
+            } else {
+                format!(" ⚠ {warnings}")
+            },
+            t.warning(),
+        ));
+    }
     spans.extend([
-        sep(),
-        Span::raw(speed_word(app)),
         sep(),
         Span::raw(format!(
             "{} {margin}",
