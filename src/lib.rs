@@ -6,6 +6,8 @@
 //! - [`scenario`]: the scenario file (RON with unit tags), its validation into a
 //!   [`physics::design::Design`], writing a design back, and safe saving.
 //! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
+//! - [`inverse`]: the model fitted to readings: several speeds, a coast-down.
+//! - [`report`]: typed results put into words, in metric or US units.
 //! - [`cli`]: the command line, a thin layer over the above.
 //! - [`tui`]: the terminal interface, the other thin layer (the only terminal code).
 //! - [`crash`]: the panic hook: terminal restored, crash report written.
@@ -26,7 +28,9 @@
 pub mod audit;
 pub mod cli;
 pub mod crash;
+pub mod inverse;
 pub mod physics;
+pub mod report;
 pub mod scenario;
 pub mod tui;
 pub mod units;
