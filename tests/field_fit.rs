@@ -82,3 +82,387 @@ proptest! {
         }
     }
 }
+
+// ---------------------------------------------------------------------------
+// Several readings, one fit (M12).
+
+use spinwright::inverse::fit::{fit, predict, FitParam, SpeedReading};
+use spinwright::physics::design::{Bearing, Design, Supply};
+use spinwright::physics::fixtures::three_arm_rotor;
+
+fn rel(a: f64, b: f64) -> f64 {
+    ((a - b) / b).abs()
+}
+
+/// The truth: the three-arm rotor with a measured bearing (0.25 N·m
+/// running) and a viscous-and-quadratic brake, each a good share of the
+/// resisting torque.
+fn truth() -> Design {
+    let mut d = three_arm_rotor();
+    d.friction.bearing = Bearing::Measured {
+        running_n_m: 0.25,
+        breakaway_n_m: 0.35,
+    };
+    d.friction.brake.viscous = 0.02;
+    d.friction.brake.quadratic = 0.0014;
+    d
+}
+
+fn speed_at(d: &Design, p: f64) -> f64 {
+    let mut at = d.clone();
+    at.supply = Supply::Pressure { inlet_pa: p };
+    rpm(solve(&at).operating.expect("runs").omega_rad_s())
+}
+
+/// The design as it was believed to be: every friction value off.
+fn believed() -> Design {
+    let mut d = truth();
+    d.friction.bearing = Bearing::Measured {
+        running_n_m: 0.12,
+        breakaway_n_m: 0.35,
+    };
+    d.friction.brake.viscous = 0.035;
+    d.friction.brake.quadratic = 0.0007;
+    d
+}
+
+#[test]
+fn readings_made_by_the_model_are_fitted_back() {
+    // Four pressures, the model's own speeds: the fit recovers the running
+    // friction and both brake coefficients within 3 %, from a design whose
+    // friction values were all wrong.
+    let t = truth();
+    let readings: Vec<SpeedReading> = [150e3, 220e3, 300e3, 400e3]
+        .iter()
+        .map(|&p| SpeedReading {
+            inlet_pressure_pa: p,
+            rpm: speed_at(&t, p),
+            flow_m3_s: None,
+            time: None,
+        })
+        .collect();
+    let r = fit(&believed(), &readings, None).unwrap();
+    assert_eq!(r.params, FitParam::ALL.to_vec());
+    assert!(rel(r.running_friction_n_m, 0.25) < 0.03, "{r:#?}");
+    assert!(rel(r.viscous.value, 0.02) < 0.03, "{r:#?}");
+    assert!(rel(r.quadratic.value, 0.0014) < 0.03, "{r:#?}");
+    assert!(r.rms_residual_rpm < 1e-3, "{}", r.rms_residual_rpm);
+    // The fitted model predicts the speed at a fifth pressure.
+    let p = predict(&r, 260e3);
+    assert!(rel(p.rpm.unwrap(), speed_at(&t, 260e3)) < 1e-3);
+}
+
+/// A small seeded generator (64-bit LCG, Knuth's MMIX constants).
+struct Lcg(u64);
+impl Lcg {
+    fn uniform(&mut self) -> f64 {
+        self.0 = self
+            .0
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
+        (self.0 >> 11) as f64 / (1u64 << 53) as f64
+    }
+}
+
+#[test]
+fn stopwatch_noise_is_covered_by_the_reported_uncertainty() {
+    // Readings as the turns counted over about 30 s, each time off by up to
+    // ±0.2 s (uniform; a hand stopwatch, common practice), at eight pressures. Over ten seeded trials the 95 % interval
+    // of each parameter holds the truth in at least eight (binomial, p = 0.95:
+    // fewer than eight happens about 1 time in 100).
+    let t = truth();
+    let pressures = [120e3, 160e3, 200e3, 240e3, 280e3, 330e3, 380e3, 440e3];
+    let true_rpm: Vec<f64> = pressures.iter().map(|&p| speed_at(&t, p)).collect();
+    let mut rng = Lcg(20_261_202);
+    let mut covered = [0usize; 3];
+    let trials = 10;
+    for _ in 0..trials {
+        let readings: Vec<SpeedReading> = pressures
+            .iter()
+            .zip(&true_rpm)
+            .map(|(&p, &n)| {
+                let turns = (n / 2.0).round().max(1.0);
+                let seconds = 60.0 * turns / n + 0.4 * (rng.uniform() - 0.5);
+                SpeedReading {
+                    inlet_pressure_pa: p,
+                    rpm: 60.0 * turns / seconds,
+                    flow_m3_s: None,
+                    time: None,
+                }
+            })
+            .collect();
+        let r = fit(&believed(), &readings, None).unwrap();
+        for (k, (fitted, truth)) in [(r.running, 0.25), (r.viscous, 0.02), (r.quadratic, 0.0014)]
+            .iter()
+            .enumerate()
+        {
+            if fitted
+                .ci95
+                .is_some_and(|half| (fitted.value - truth).abs() <= half)
+            {
+                covered[k] += 1;
+            }
+        }
+    }
+    assert!(covered.iter().all(|&c| c >= 8), "{covered:?} of {trials}");
+}
+
+// ---------------------------------------------------------------------------
+// Coast-down (M12) against the closed-form solution of
+// I dω/dt = −(T_c + c₁ω): ω(t) = (ω₀ + a)e^{−t/τ} − a, θ(t) = (ω₀ + a)τ(1 − e^{−t/τ}) − a t,
+// a = T_c/c₁, τ = I/c₁, t_stop = τ ln(1 + ω₀/a) (first-order linear ODE, any
+// dynamics text).
+
+use spinwright::inverse::coast::{fit_coast, CoastData, InertiaSource};
+use spinwright::physics::design::Inertia;
+
+const I: f64 = 0.02;
+const TC: f64 = 0.02;
+const C1: f64 = 0.002;
+const W0: f64 = 30.0;
+
+fn coast_design() -> Design {
+    let mut d = three_arm_rotor();
+    d.rotor.inertia = Inertia::Given { kg_m2: I };
+    d.friction.arm_drag_cd = 0.0;
+    d.friction.brake.quadratic = 0.0;
+    d
+}
+
+fn theta(t: f64) -> f64 {
+    let (a, tau) = (TC / C1, I / C1);
+    (W0 + a) * tau * (1.0 - (-t / tau).exp()) - a * t
+}
+
+fn omega(t: f64) -> f64 {
+    let (a, tau) = (TC / C1, I / C1);
+    ((W0 + a) * (-t / tau).exp() - a).max(0.0)
+}
+
+fn t_stop() -> f64 {
+    (I / C1) * (1.0 + W0 * C1 / TC).ln()
+}
+
+fn turn_times() -> Vec<f64> {
+    let stop = t_stop();
+    let mut out = Vec::new();
+    for k in 1.. {
+        let target = std::f64::consts::TAU * k as f64;
+        if theta(stop) < target {
+            break;
+        }
+        let (mut lo, mut hi) = (0.0, stop);
+        for _ in 0..100 {
+            let mid = 0.5 * (lo + hi);
+            if theta(mid) < target {
+                lo = mid;
+            } else {
+                hi = mid;
+            }
+        }
+        out.push(0.5 * (lo + hi));
+    }
+    out
+}
+
+#[test]
+fn a_coast_down_is_fitted_back() {
+    // I = 0.02 kg·m², T_c = 0.02 N·m, c₁ = 0.002 N·m·s/rad, ω₀ = 30 rad/s:
+    // τ = 10 s, a = 10 rad/s, t_stop = 10 ln 4 = 13.86 s, 25 whole turns.
+    let times = turn_times();
+    assert_eq!(times.len(), 25);
+    let r = fit_coast(&coast_design(), &CoastData::TurnTimes(times), None).unwrap();
+    assert_eq!(r.inertia_source, InertiaSource::Given);
+    assert!(rel(r.running_friction_n_m.value, TC) < 0.05, "{r:#?}");
+    assert!(rel(r.viscous_n_m_s.value, C1) < 0.05, "{r:#?}");
+    assert!(rel(r.stop_time_s.unwrap(), t_stop()) < 0.05, "{r:#?}");
+    assert!(rel(r.omega0_rad_s.value, W0) < 0.01);
+    // The same from timed speed readings (time_s, rpm), every second.
+    let speeds: Vec<(f64, f64)> = (1..13).map(|t| (t as f64, rpm(omega(t as f64)))).collect();
+    let r = fit_coast(&coast_design(), &CoastData::Speeds(speeds), None).unwrap();
+    assert!(rel(r.running_friction_n_m.value, TC) < 0.05, "{r:#?}");
+    assert!(rel(r.viscous_n_m_s.value, C1) < 0.05, "{r:#?}");
+}
+
+#[test]
+fn a_coast_down_with_an_estimated_inertia_says_so() {
+    // The three-arm rotor's inertia is estimated from its arms (drained).
+    let d = three_arm_rotor();
+    let r = fit_coast(&d, &CoastData::TurnTimes(turn_times()), None).unwrap();
+    assert_eq!(r.inertia_source, InertiaSource::Estimated);
+    let e = fit_coast(&d, &CoastData::TurnTimes(vec![1.0, 0.5, 2.0, 3.0]), None).unwrap_err();
+    assert!(e.to_string().contains("point 2"), "{e}");
+}
+
+// ---------------------------------------------------------------------------
+// The commands.
+
+use assert_cmd::Command;
+use predicates::prelude::*;
+
+fn spinwright() -> Command {
+    Command::cargo_bin("spinwright").unwrap()
+}
+
+fn shipped(name: &str) -> String {
+    crate::support::root()
+        .join("scenarios")
+        .join(name)
+        .display()
+        .to_string()
+}
+
+#[test]
+fn fit_reports_in_metric_and_us_units_and_writes_the_fitted_scenario() {
+    let lawn = shipped("lawn-rotor.ron");
+    let readings = shipped("lawn-rotor-readings.csv");
+    spinwright()
+        .args([
+            "fit",
+            &lawn,
+            "--readings",
+            &readings,
+            "--at-pressure",
+            "2.8bar",
+        ])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("kPa"))
+        .stdout(predicate::str::contains("N·m·s/rad"))
+        .stdout(predicate::str::contains("L/min"))
+        .stdout(predicate::str::contains("at 280 kPa:"));
+    spinwright()
+        .args([
+            "fit",
+            &lawn,
+            "--readings",
+            &readings,
+            "--units",
+            "us",
+            "--at-pressure",
+            "40psi",
+        ])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("psi"))
+        .stdout(predicate::str::contains("lbf·in"))
+        .stdout(predicate::str::contains("gpm"))
+        .stdout(predicate::str::contains("kPa").not())
+        .stdout(predicate::str::contains("N·m").not());
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("fitted.ron");
+    let o = spinwright()
+        .args([
+            "fit",
+            &lawn,
+            "--readings",
+            &readings,
+            "--format",
+            "json",
+            "--out",
+        ])
+        .arg(&out)
+        .output()
+        .unwrap();
+    assert!(o.status.success());
+    let j: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    for k in [
+        "running_friction_n_m",
+        "viscous_n_m_s",
+        "quadratic_n_m_s2",
+        "rms_residual_rpm",
+    ] {
+        assert!(j[k].as_f64().is_some_and(|v| v >= 0.0), "{k}: {j}");
+    }
+    assert_eq!(j["residuals"].as_array().unwrap().len(), 4);
+    // The fitted scenario loads and runs at the fitted brake.
+    let solved: serde_json::Value = serde_json::from_slice(
+        &spinwright()
+            .args(["solve", out.to_str().unwrap(), "--format", "json"])
+            .output()
+            .unwrap()
+            .stdout,
+    )
+    .unwrap();
+    assert!(solved["operating_point"]["rpm"].as_f64().unwrap() > 0.0);
+}
+
+#[test]
+fn fit_refuses_a_bad_readings_file_with_its_line_and_column() {
+    let dir = tempfile::tempdir().unwrap();
+    let bad = dir.path().join("bad.csv");
+    std::fs::write(&bad, "pressure_psi,rpm\n40,30\n45,fast\n").unwrap();
+    spinwright()
+        .args(["fit", &shipped("lawn-rotor.ron"), "--readings"])
+        .arg(&bad)
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("bad.csv:3:2"));
+    spinwright()
+        .args([
+            "fit",
+            &shipped("lawn-rotor.ron"),
+            "--readings",
+            &shipped("lawn-rotor-readings.csv"),
+            "--fit",
+            "brake",
+        ])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("running, viscous, quadratic"));
+}
+
+#[test]
+fn coast_reports_friction_brake_stop_time_and_its_assumptions() {
+    let times = turn_times()
+        .iter()
+        .map(|t| format!("{t:.2}"))
+        .collect::<Vec<_>>()
+        .join(",");
+    let o = spinwright()
+        .args([
+            "coast",
+            &shipped("lawn-rotor.ron"),
+            "--turn-times",
+            &times,
+            "--format",
+            "json",
+        ])
+        .output()
+        .unwrap();
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let j: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    for k in [
+        "running_friction_n_m",
+        "viscous_n_m_s",
+        "stop_time_s",
+        "inertia_kg_m2",
+    ] {
+        assert!(j[k].as_f64().is_some_and(|v| v >= 0.0), "{k}: {j}");
+    }
+    assert!(j["inertia"].as_str().is_some());
+    spinwright()
+        .args([
+            "coast",
+            &shipped("lawn-rotor.ron"),
+            "--turn-times",
+            &times,
+            "--units",
+            "us",
+        ])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("Assumptions"))
+        .stdout(predicate::str::contains("lbf·in"))
+        .stdout(predicate::str::contains("no water torque"));
+    spinwright()
+        .args([
+            "coast",
+            &shipped("lawn-rotor.ron"),
+            "--turn-times",
+            "1,2,x,4",
+        ])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("item 3"));
+}

@@ -161,20 +161,43 @@ pub fn levenberg_marquardt(
         let rv = DVector::from_vec(r.clone());
         let jtj = j.transpose() * &j;
         let g = j.transpose() * &rv;
+        // Parameters at their bound that the descent would push past are held
+        // this step (an active set), the others stepped together.
+        let free: Vec<usize> = (0..p)
+            .filter(|&k| {
+                let at_lo = match (x.get(k), problem.lower.get(k)) {
+                    (Some(v), Some(lo)) => lo.is_finite() && *v <= *lo,
+                    _ => false,
+                };
+                !(at_lo && g.get(k).copied().unwrap_or(0.0) > 0.0)
+            })
+            .collect();
+        if free.is_empty() {
+            converged = true;
+            break;
+        }
+        let jtj_f = jtj.select_rows(free.iter()).select_columns(free.iter());
+        let g_f = g.select_rows(free.iter());
         let mut improved = false;
         for _ in 0..30 {
-            let mut a = jtj.clone();
-            for k in 0..p {
-                let d = jtj.get((k, k)).copied().unwrap_or(0.0).max(1e-30);
+            let mut a = jtj_f.clone();
+            for k in 0..free.len() {
+                let d = jtj_f.get((k, k)).copied().unwrap_or(0.0).max(1e-30);
                 if let Some(cell) = a.get_mut((k, k)) {
                     *cell += lambda * d;
                 }
             }
-            let Some(delta) = a.clone().cholesky().map(|c| c.solve(&(-&g))) else {
+            let Some(delta_f) = a.clone().cholesky().map(|c| c.solve(&(-&g_f))) else {
                 lambda *= 4.0;
                 continue;
             };
-            let mut xn: Vec<f64> = x.iter().zip(delta.iter()).map(|(a, b)| a + b).collect();
+            let mut delta = vec![0.0; p];
+            for (i, &k) in free.iter().enumerate() {
+                if let (Some(cell), Some(v)) = (delta.get_mut(k), delta_f.get(i)) {
+                    *cell = *v;
+                }
+            }
+            let mut xn: Vec<f64> = x.iter().zip(&delta).map(|(a, b)| a + b).collect();
             project(&mut xn);
             match f(&xn) {
                 Some(rn) if rn.len() == n && sum_sq(&rn) < s => {
@@ -183,8 +206,8 @@ pub fn levenberg_marquardt(
                         .iter()
                         .zip(&xn)
                         .zip(&problem.scale)
-                        .all(|((a, b), sc)| (a - b).abs() <= 1e-10 * a.abs().max(*sc));
-                    let fall_small = s - sn <= 1e-12 * s;
+                        .all(|((a, b), sc)| (a - b).abs() <= 1e-9 * a.abs().max(*sc));
+                    let fall_small = s - sn <= 1e-10 * s;
                     x = xn;
                     r = rn;
                     s = sn;

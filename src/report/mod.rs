@@ -4,3 +4,4 @@
 //! same in both.
 
 pub mod field;
+pub mod fit;
