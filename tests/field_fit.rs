@@ -466,3 +466,128 @@ fn coast_reports_friction_brake_stop_time_and_its_assumptions() {
         .code(2)
         .stderr(predicate::str::contains("item 3"));
 }
+
+#[test]
+fn log_rows_append_with_a_date_and_units_and_read_back_by_fit() {
+    let lawn = shipped("lawn-rotor.ron");
+    let dir = tempfile::tempdir().unwrap();
+    let log = dir.path().join("unit.csv");
+    let log_s = log.to_str().unwrap();
+    // The first visit finds the unit as designed; by the second it runs 5 % slower.
+    let design = spinwright::scenario::load_file(std::path::Path::new(&lawn))
+        .unwrap()
+        .to_design()
+        .unwrap();
+    let psi = 6_894.757;
+    let n40 = speed_at(&design, 40.0 * psi);
+    let n30 = speed_at(&design, 30.0 * psi);
+    let visits = [
+        ("2026-05-10T09:30", "40psi", n40),
+        ("2026-05-10T09:40", "30psi", n30),
+        ("2026-08-02T10:00", "40psi", 0.95 * n40),
+        ("2026-08-02T10:10", "30psi", 0.95 * n30),
+    ];
+    for (at, p, rpm) in visits {
+        let rpm = format!("{rpm:.3}");
+        spinwright()
+            .args([
+                "check",
+                &lawn,
+                "--pressure",
+                p,
+                "--rpm",
+                &rpm,
+                "--units",
+                "us",
+                "--log",
+                log_s,
+                "--at",
+                at,
+            ])
+            .assert()
+            .success();
+    }
+    let text = std::fs::read_to_string(&log).unwrap();
+    let lines: Vec<&str> = text.lines().collect();
+    assert_eq!(lines.len(), 5, "{text}");
+    assert!(
+        lines[0].starts_with("time,pressure_psi,rpm,flow_gpm,"),
+        "{text}"
+    );
+    assert!(lines[0].contains("running_friction_lbf_in"));
+    assert!(
+        lines[1].starts_with(&format!("2026-05-10T09:30,40.0,{n40:.2},")),
+        "{text}"
+    );
+    // A metric run appends in the log's own units.
+    spinwright()
+        .args([
+            "check",
+            &lawn,
+            "--pressure",
+            "2bar",
+            "--rpm",
+            "16",
+            "--log",
+            log_s,
+        ])
+        .assert()
+        .success();
+    let text = std::fs::read_to_string(&log).unwrap();
+    let last = text.lines().last().unwrap();
+    assert!(last.contains(",29.0,16.00,"), "{last}");
+    assert!(
+        last.get(..4).unwrap().parse::<u32>().unwrap() >= 2026,
+        "dated now: {last}"
+    );
+    // fit reads the log back and reports the trend over the visits.
+    let o = spinwright()
+        .args(["fit", &lawn, "--readings", log_s, "--format", "json"])
+        .output()
+        .unwrap();
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let j: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(j["readings"], 5);
+    let v = j["visits"].as_array().unwrap();
+    assert_eq!(v.len(), 3);
+    assert_eq!(v[0]["date"], "2026-05-10");
+    // More drag on the second visit than on the first.
+    assert!(
+        j["running_friction_change_percent"].as_f64().unwrap() > 0.0,
+        "{j}"
+    );
+    spinwright()
+        .args(["fit", &lawn, "--readings", log_s])
+        .assert()
+        .success()
+        .stdout(predicate::str::contains("since 2026-05-10"));
+    // A bad --at and a file that is not a log are refused, the file kept.
+    spinwright()
+        .args([
+            "check",
+            &lawn,
+            "--pressure",
+            "2bar",
+            "--rpm",
+            "16",
+            "--log",
+            log_s,
+            "--at",
+            "May 10",
+        ])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("ISO 8601"));
+    let other = dir.path().join("notes.csv");
+    std::fs::write(&other, "# my notes\nname,value\na,1\n").unwrap();
+    spinwright()
+        .args(["check", &lawn, "--pressure", "2bar", "--rpm", "16", "--log"])
+        .arg(&other)
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("not a log"));
+    assert_eq!(
+        std::fs::read_to_string(&other).unwrap(),
+        "# my notes\nname,value\na,1\n"
+    );
+}

@@ -8,9 +8,9 @@ use serde::Serialize;
 
 use super::{load_design, quantity, CliError, Format, Outcome, Output};
 use crate::inverse::coast::{fit_coast, CoastData, CoastResult, InertiaSource};
-use crate::inverse::fit::{fit, predict, FitParam, FitResult, Fitted, Prediction};
+use crate::inverse::fit::{fit, predict, visits, FitParam, FitResult, Fitted, Prediction, Visit};
 use crate::inverse::readings::{coast_readings, speed_readings};
-use crate::report::fit::{coast_text, fit_text};
+use crate::report::fit::{coast_text, fit_text, trend_percent, trend_text};
 use crate::scenario::{save_atomic, Scenario};
 use crate::units::{Dimension as D, UnitSystem};
 
@@ -111,10 +111,25 @@ struct FitJson {
     converged: bool,
     residuals: Vec<ResidualJson>,
     predictions: Vec<PredictionJson>,
+    visits: Vec<VisitJson>,
+    running_friction_change_percent: Option<f64>,
     written_to: Option<String>,
 }
 
-fn fit_json(name: &str, r: &FitResult, preds: &[Prediction], written: Option<String>) -> FitJson {
+#[derive(Debug, Serialize)]
+struct VisitJson {
+    date: String,
+    readings: usize,
+    running_friction_n_m: f64,
+}
+
+fn fit_json(
+    name: &str,
+    r: &FitResult,
+    preds: &[Prediction],
+    visits: &[Visit],
+    written: Option<String>,
+) -> FitJson {
     FitJson {
         scenario: name.to_string(),
         readings: r.residuals.len(),
@@ -155,6 +170,15 @@ fn fit_json(name: &str, r: &FitResult, preds: &[Prediction], written: Option<Str
                 rpm_ci95: p.ci95_rpm,
             })
             .collect(),
+        visits: visits
+            .iter()
+            .map(|v| VisitJson {
+                date: v.date.clone(),
+                readings: v.readings,
+                running_friction_n_m: v.running_friction_n_m,
+            })
+            .collect(),
+        running_friction_change_percent: trend_percent(visits),
         written_to: written,
     }
 }
@@ -199,6 +223,7 @@ pub fn run_fit(
     let result = fit(&design, &readings, params.as_deref())
         .map_err(|e| CliError::Usage(format!("{}: {e}", args.readings.display())))?;
     let predictions: Vec<Prediction> = pressures.iter().map(|p| predict(&result, *p)).collect();
+    let by_visit = visits(&design, &readings);
     let units: UnitSystem = o.units.into();
     let written = match &args.out {
         Some(p) => Some(write_scenario(
@@ -217,7 +242,7 @@ pub fn run_fit(
         Format::Json => {
             serde_json::to_writer_pretty(
                 &mut *out,
-                &fit_json(&design.name, &result, &predictions, written),
+                &fit_json(&design.name, &result, &predictions, &by_visit, written),
             )
             .map_err(std::io::Error::from)?;
             writeln!(out)?;
@@ -228,6 +253,7 @@ pub fn run_fit(
                 "{}",
                 fit_text(&design.name, &result, &predictions, units)
             )?;
+            write!(out, "{}", trend_text(&by_visit, units))?;
             if let Some(w) = written {
                 writeln!(out, "wrote the fitted scenario to {w}")?;
             }

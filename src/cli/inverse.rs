@@ -130,6 +130,10 @@ pub struct CheckArgs {
     pub stopwatch: Option<String>,
     /// Leave the CSV header out (for appending to a log).
     pub no_header: bool,
+    /// A unit's log to append a dated row to.
+    pub log: Option<PathBuf>,
+    /// The date-time of the row (ISO 8601; now when left out).
+    pub at: Option<String>,
 }
 
 fn reading(args: &CheckArgs) -> Result<FieldReading, CliError> {
@@ -365,13 +369,23 @@ pub fn run_check(
     )
     .map_err(|e| CliError::Usage(e.to_string()))?;
     let units: UnitSystem = o.units.into();
+    if let Some(log) = &args.log {
+        super::log::append(log, &result, args.at.as_deref(), units)?;
+    } else if args.at.is_some() {
+        return Err(CliError::Usage("--at goes with --log FILE".into()));
+    }
     match o.format {
         Format::Json => {
             serde_json::to_writer_pretty(&mut *out, &check_json(&design, &result, units))
                 .map_err(std::io::Error::from)?;
             writeln!(out)?;
         }
-        Format::Text => write!(out, "{}", check_text(&design, &result, units))?,
+        Format::Text => {
+            write!(out, "{}", check_text(&design, &result, units))?;
+            if let Some(log) = &args.log {
+                writeln!(out, "appended a row to the log {}", log.display())?;
+            }
+        }
         Format::Csv => {
             let j = check_json(&design, &result, units);
             let mut w = csv::WriterBuilder::new()

@@ -8,6 +8,7 @@
 mod fit;
 mod inverse;
 mod layout;
+mod log;
 mod solve;
 mod table;
 pub mod text;
@@ -127,6 +128,12 @@ pub enum Command {
         /// CSV without its header line, for appending to a log.
         #[arg(long)]
         no_header: bool,
+        /// Append a dated row to this unit's log (CSV; created with a header if missing).
+        #[arg(long, value_name = "CSV")]
+        log: Option<PathBuf>,
+        /// Date-time of the logged row, ISO 8601 (e.g. 2026-05-10T09:30; default now).
+        #[arg(long, value_name = "TIME")]
+        at: Option<String>,
         /// Format and units of the report.
         #[command(flatten)]
         out: Output,
@@ -370,6 +377,8 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             throw,
             stopwatch,
             no_header,
+            log,
+            at,
             out: o,
         } => {
             let args = inverse::CheckArgs {
@@ -383,6 +392,8 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
                 throw,
                 stopwatch,
                 no_header,
+                log,
+                at,
             };
             inverse::run_check(&file, &args, o, out)
         }

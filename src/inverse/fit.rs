@@ -642,3 +642,51 @@ pub fn predict(result: &FitResult, inlet_pa: f64) -> Prediction {
         ci95_rpm: se.map(|s| s * t95(result.dof)),
     }
 }
+
+/// One visit in a unit's log: the running friction fitted to its readings
+/// alone, the brake and nozzles held at the design's values (a change of the
+/// brake between visits shows here as a change of running friction).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Visit {
+    /// The date (YYYY-MM-DD) of the readings.
+    pub date: String,
+    /// Readings that day.
+    pub readings: usize,
+    /// Running friction that day, N·m (mean bearing torque for a washer).
+    pub running_friction_n_m: f64,
+}
+
+/// The running friction visit by visit (readings grouped by the date of
+/// their `time`), oldest first; empty with fewer than two dated visits.
+pub fn visits(design: &Design, readings: &[SpeedReading]) -> Vec<Visit> {
+    let mut dates: Vec<String> = readings
+        .iter()
+        .filter_map(|r| {
+            r.time
+                .as_deref()
+                .and_then(|t| t.get(..10))
+                .map(str::to_string)
+        })
+        .collect();
+    dates.sort();
+    dates.dedup();
+    if dates.len() < 2 {
+        return Vec::new();
+    }
+    dates
+        .into_iter()
+        .filter_map(|date| {
+            let day: Vec<SpeedReading> = readings
+                .iter()
+                .filter(|r| r.time.as_deref().and_then(|t| t.get(..10)) == Some(date.as_str()))
+                .cloned()
+                .collect();
+            let f = fit(design, &day, Some(&[FitParam::Running])).ok()?;
+            Some(Visit {
+                date,
+                readings: day.len(),
+                running_friction_n_m: f.running_friction_n_m,
+            })
+        })
+        .collect()
+}

@@ -81,10 +81,18 @@ pub struct Row {
     pub time_s: Option<f64>,
 }
 
-fn split(line: &str) -> Vec<&str> {
-    line.split(',')
-        .map(|f| f.trim().trim_matches('"').trim())
-        .collect()
+/// The cells of one CSV line (quoted cells may hold commas).
+fn split(line: &str) -> Vec<String> {
+    let mut reader = csv::ReaderBuilder::new()
+        .has_headers(false)
+        .flexible(true)
+        .trim(csv::Trim::All)
+        .from_reader(line.as_bytes());
+    let mut record = csv::StringRecord::new();
+    match reader.read_record(&mut record) {
+        Ok(true) => record.iter().map(|c| c.trim().to_string()).collect(),
+        _ => line.split(',').map(|c| c.trim().to_string()).collect(),
+    }
 }
 
 /// Parse a readings file's text into rows (every recognised column).
@@ -145,7 +153,7 @@ pub fn parse_rows(file: &str, text: &str) -> Result<Vec<Row>, ReadingsError> {
                             format!("`{cell}` is not an ISO 8601 date or date-time (e.g. 2026-05-10 or 2026-05-10T09:30)"),
                         ));
                     }
-                    row.time = Some((*cell).to_string());
+                    row.time = Some(cell.clone());
                 }
                 Col::Other => {}
             }

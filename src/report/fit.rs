@@ -3,7 +3,7 @@
 //! (c₁) and per (rad/s)² (c₂) in the unit system's torque unit.
 
 use crate::inverse::coast::{CoastResult, InertiaSource};
-use crate::inverse::fit::{FitResult, Fitted, Prediction};
+use crate::inverse::fit::{FitResult, Fitted, Prediction, Visit};
 use crate::units::{
     format_number, format_quantity, to_display, unit_label, Dimension as D, UnitSystem,
 };
@@ -155,6 +155,50 @@ pub fn fit_text(name: &str, r: &FitResult, predictions: &[Prediction], u: UnitSy
     if !r.converged {
         s.push_str("  note: the fit stopped at its iteration limit; the values may not be final\n");
     }
+    s
+}
+
+/// The running friction's change from the first visit to the last, percent
+/// (None with fewer than two visits or none at first).
+pub fn trend_percent(visits: &[Visit]) -> Option<f64> {
+    let (first, last) = (visits.first()?, visits.last()?);
+    (visits.len() >= 2 && first.running_friction_n_m > 0.0)
+        .then(|| 100.0 * (last.running_friction_n_m / first.running_friction_n_m - 1.0))
+}
+
+/// The trend over visits as text (empty with fewer than two visits).
+pub fn trend_text(visits: &[Visit], u: UnitSystem) -> String {
+    let (Some(first), Some(last)) = (visits.first(), visits.last()) else {
+        return String::new();
+    };
+    if visits.len() < 2 {
+        return String::new();
+    }
+    let torque = |v: f64| format_quantity(D::Torque, v, u);
+    let mut s = String::from(
+        "\n  Running friction by visit (each fitted alone, the brake held at the design's)\n",
+    );
+    for v in visits {
+        s.push_str(&format!(
+            "  {}  {}  ({} reading{})\n",
+            v.date,
+            torque(v.running_friction_n_m),
+            v.readings,
+            if v.readings == 1 { "" } else { "s" }
+        ));
+    }
+    let line = match trend_percent(visits) {
+        Some(p) if p.abs() < 0.5 => format!("running friction unchanged since {}", first.date),
+        Some(p) if p > 0.0 => format!("running friction up {p:.0} % since {}", first.date),
+        Some(p) => format!("running friction down {:.0} % since {}", -p, first.date),
+        None => format!(
+            "running friction from none on {} to {} on {}",
+            first.date,
+            torque(last.running_friction_n_m),
+            last.date
+        ),
+    };
+    s.push_str(&format!("  {line}\n"));
     s
 }
 
