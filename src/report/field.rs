@@ -499,6 +499,10 @@ pub fn split_text(s: &ResistSplit, measured_rpm: f64, u: UnitSystem) -> String {
             " — {} more drag would hold the measured speed",
             q(D::Torque, s.excess_n_m, u)
         ));
+    } else if s.excess_n_m < 0.0 && -s.excess_n_m > total {
+        line.push_str(
+            " — even with no drag at all the jets could not hold the measured speed: check the nozzle angles and the pressure gauge",
+        );
     } else if s.excess_n_m < 0.0 {
         line.push_str(&format!(
             " — {} less drag would hold the measured speed",

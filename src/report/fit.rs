@@ -38,11 +38,13 @@ fn status(f: &Fitted) -> &'static str {
 /// The speed fit as text.
 pub fn fit_text(name: &str, r: &FitResult, predictions: &[Prediction], u: UnitSystem) -> String {
     let torque = |v: f64| format_quantity(D::Torque, v, u);
+    let plural =
+        |n: usize, one: &str, many: &str| format!("{n} {}", if n == 1 { one } else { many });
     let mut s = format!(
-        "{name}: fitted to {} readings ({} parameter(s), {} degree(s) of freedom left)\n",
-        r.residuals.len(),
-        r.params.len(),
-        r.dof
+        "{name}: fitted to {} ({}, {} left)\n",
+        plural(r.residuals.len(), "reading", "readings"),
+        plural(r.params.len(), "parameter", "parameters"),
+        plural(r.dof, "degree of freedom", "degrees of freedom"),
     );
     if r.running_is_mu {
         s.push_str(&format!(
@@ -151,6 +153,11 @@ pub fn fit_text(name: &str, r: &FitResult, predictions: &[Prediction], u: UnitSy
                 None => "the fitted model does not run".into(),
             }
         ));
+    }
+    let mean_rpm =
+        r.residuals.iter().map(|x| x.measured_rpm).sum::<f64>() / r.residuals.len().max(1) as f64;
+    if r.rms_residual_rpm > 0.1 * mean_rpm {
+        s.push_str("  note: the model misses these readings by more than 10 %: check them against the design (pressure at the inlet, speed in rpm)\n");
     }
     if !r.converged {
         s.push_str("  note: the fit stopped at its iteration limit; the values may not be final\n");
