@@ -591,3 +591,70 @@ fn log_rows_append_with_a_date_and_units_and_read_back_by_fit() {
         "# my notes\nname,value\na,1\n"
     );
 }
+
+#[test]
+fn check_words_its_findings_in_us_units() {
+    let lawn = shipped("lawn-rotor.ron");
+    let o = spinwright()
+        .args([
+            "check",
+            &lawn,
+            "--pressure",
+            "40psi",
+            "--rpm",
+            "22",
+            "--flow",
+            "4gpm",
+            "--units",
+            "us",
+        ])
+        .output()
+        .unwrap();
+    let text = String::from_utf8(o.stdout).unwrap();
+    assert!(o.status.success());
+    for want in ["psi", "lbf·in", "gpm", " in "] {
+        assert!(text.contains(want), "{want} in\n{text}");
+    }
+    for not in ["kPa", "N·m", "L/min", " mm"] {
+        assert!(!text.contains(not), "{not} in\n{text}");
+    }
+    assert!(text.contains("Causes"), "{text}");
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 24, ..ProptestConfig::default() })]
+
+    /// Readings files made of odd cells never panic: either a clear error
+    /// naming the file, or a fit whose numbers are all finite.
+    #[test]
+    fn odd_readings_files_give_an_error_or_a_finite_fit(
+        cells in prop::collection::vec(
+            prop::sample::select(vec![
+                "200", "300", "0", "-5", "1e9", "nan", "", "25.5", "fast", "2026-05-10", "40",
+            ]),
+            2..12,
+        ),
+        header in prop::sample::select(vec![
+            "pressure_kPa,rpm", "pressure_psi,rpm,flow_gpm", "rpm,pressure_bar", "pressure,rpm", "time,pressure_kPa,rpm",
+        ]),
+    ) {
+        let width = header.split(',').count();
+        let mut text = format!("{header}\n");
+        for row in cells.chunks(width) {
+            text.push_str(&row.join(","));
+            text.push('\n');
+        }
+        match spinwright::inverse::readings::speed_readings("odd.csv", &text) {
+            Err(e) => prop_assert!(e.to_string().starts_with("odd.csv:"), "{}", e),
+            Ok(readings) => match fit(&three_arm_rotor(), &readings, None) {
+                Err(e) => prop_assert!(!e.to_string().is_empty()),
+                Ok(r) => {
+                    prop_assert!(r.running_friction_n_m.is_finite() && r.running_friction_n_m >= 0.0);
+                    prop_assert!(r.viscous.value.is_finite() && r.viscous.value >= 0.0);
+                    prop_assert!(r.quadratic.value.is_finite() && r.quadratic.value >= 0.0);
+                    prop_assert!(r.rms_residual_rpm.is_finite());
+                }
+            },
+        }
+    }
+}
