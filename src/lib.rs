@@ -13,6 +13,7 @@
 //! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
 //! - [`rate_map`]: the picture of water on the ground (rate scale, colours,
 //!   shading, driest quarter, heads), shared by the command line and the interface.
+//! - [`report`]: typed results put into words, in metric or US units.
 //! - [`cli`]: the command line, a thin layer over the above.
 //! - [`tui`]: the terminal interface, the other thin layer (the only terminal code).
 //! - [`crash`]: the panic hook: terminal restored, crash report written.
@@ -37,6 +38,7 @@ pub mod crash;
 pub mod inverse;
 pub mod physics;
 pub mod rate_map;
+pub mod report;
 pub mod scenario;
 pub mod tui;
 pub mod units;

@@ -11,7 +11,7 @@ const DEG: f64 = PI / 180.0;
 
 /// A random but physically valid design: 1–6 arms, garden-to-field sizes,
 /// all three supply modes, washer or measured bearing, brakes and air drag.
-fn design() -> impl Strategy<Value = Design> {
+pub fn design() -> impl Strategy<Value = Design> {
     (
         1usize..=6,
         0.08f64..1.2,

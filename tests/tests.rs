@@ -4,6 +4,7 @@ mod cli;
 mod engine_properties;
 mod engine_reference;
 mod extreme_designs;
+mod field_fit;
 mod fuzz;
 mod inverse;
 mod pattern_conservation;

@@ -20,12 +20,14 @@ use crate::physics::balance::{solve, SpinReport};
 use crate::physics::coverage::{head_throw, layout_overlap, wetted_radius_m};
 use crate::physics::design::Design;
 use crate::physics::field::{
-    check, FieldCheck, FieldReading, FieldTolerances, FlowReading, RotationReading, ThrowReading,
+    check, Alone, Cause, CauseEvidence, FieldCheck, FieldReading, FieldTolerances, FlowReading,
+    NozzleAlone, RotationReading, ThrowReading,
 };
 use crate::physics::layout::OverlapOptions;
 use crate::physics::pattern::PatternOptions;
 use crate::scenario::{self, save_scenario, Scenario};
 use crate::units::{csv_key, format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
+use crate::report::field as words;
 
 /// The dimension an input's values are typed in, `None` for a bare number
 /// (coefficients, and brakes, which are SI in both unit systems).
@@ -115,6 +117,10 @@ pub struct CheckArgs {
     pub stopwatch: Option<String>,
     /// Leave the CSV header out (for appending to a log).
     pub no_header: bool,
+    /// A unit's log to append a dated row to.
+    pub log: Option<PathBuf>,
+    /// The date-time of the row (ISO 8601; now when left out).
+    pub at: Option<String>,
 }
 
 fn reading(args: &CheckArgs, format: Format) -> Result<FieldReading, CliError> {
@@ -241,10 +247,13 @@ fn reading(args: &CheckArgs, format: Format) -> Result<FieldReading, CliError> {
 struct CheckJson {
     scenario: String,
     inlet_pressure_pa: f64,
+    design_inlet_pressure_pa: f64,
+    design_rpm: Option<f64>,
     expected_rpm: Option<f64>,
     measured_rpm: f64,
     measured_rpm_band: [f64; 2],
     deviation_percent: Option<f64>,
+    direction: Option<&'static str>,
     implied_running_torque_n_m: Option<f64>,
     design_running_torque_n_m: Option<f64>,
     implied_nozzle_diameter_m: Option<f64>,
@@ -252,37 +261,119 @@ struct CheckJson {
     measured_flow_m3_s: Option<f64>,
     expected_throw_m: Option<f64>,
     measured_throw_m: Option<f64>,
+    resisting_n_m: SplitJson,
+    causes: Vec<CauseJson>,
     findings: Vec<FindingJson>,
 }
 
 #[derive(Debug, Serialize)]
+struct SplitJson {
+    bearing_n_m: f64,
+    seal_n_m: f64,
+    brake_n_m: f64,
+    air_n_m: f64,
+    drive_n_m: f64,
+    excess_n_m: f64,
+}
+
+#[derive(Debug, Serialize)]
+struct CauseJson {
+    cause: &'static str,
+    explains_rpm: Option<f64>,
+    impossible: bool,
+    design_n_m: Option<f64>,
+    share: Option<f64>,
+    factor_alone: Option<f64>,
+    needed_n_m: Option<f64>,
+    nozzle_scale: Option<f64>,
+    text: String,
+}
+
+#[derive(Debug, Serialize)]
 struct FindingJson {
+    kind: &'static str,
     finding: String,
     evidence: String,
     fault: bool,
 }
 
-fn check_json(design: &Design, c: &FieldCheck) -> CheckJson {
+fn cause_json(c: &Cause, dev: Option<f64>, units: UnitSystem) -> CauseJson {
+    let (design_n_m, share, factor, needed, scale) = match c.evidence {
+        CauseEvidence::Part {
+            design_n_m,
+            share,
+            alone,
+            ..
+        } => {
+            let (f, n) = match alone {
+                Alone::Factor { factor, needed_n_m } => (Some(factor), Some(needed_n_m)),
+                Alone::Added { needed_n_m } => (None, Some(needed_n_m)),
+                Alone::NegativeFriction | Alone::Absent => (None, None),
+            };
+            (Some(design_n_m), Some(share), f, n, None)
+        }
+        CauseEvidence::NozzleFromFlow { scale, .. }
+        | CauseEvidence::NozzleUnmeasured(NozzleAlone::Clogged { scale, .. }) => {
+            (None, None, None, None, Some(scale))
+        }
+        _ => (None, None, None, None, None),
+    };
+    CauseJson {
+        cause: c.kind.key(),
+        explains_rpm: c.explains_rpm,
+        impossible: c.impossible(),
+        design_n_m,
+        share,
+        factor_alone: factor,
+        needed_n_m: needed,
+        nozzle_scale: scale,
+        text: words::cause_text(c, dev, units),
+    }
+}
+
+fn check_json(design: &Design, c: &FieldCheck, units: UnitSystem) -> CheckJson {
+    let dev = words::deviation_rpm(c);
+    let p = c.split.parts;
     CheckJson {
         scenario: design.name.clone(),
         inlet_pressure_pa: c.inlet_pressure_pa,
+        design_inlet_pressure_pa: c.design_inlet_pressure_pa,
+        design_rpm: c.design_rpm,
         expected_rpm: c.expected_rpm,
         measured_rpm: c.measured_rpm,
         measured_rpm_band: c.measured_rpm_band,
         deviation_percent: c.deviation_percent,
-        implied_running_torque_n_m: c.friction.map(|f| f.implied_running_torque_n_m),
+        direction: c
+            .findings
+            .first()
+            .and_then(|f| f.direction())
+            .map(|d| d.key()),
+        implied_running_torque_n_m: c
+            .friction
+            .map(|f| f.implied_running_torque_n_m)
+            .filter(|t| *t >= 0.0),
         design_running_torque_n_m: c.friction.map(|f| f.design_running_torque_n_m),
         implied_nozzle_diameter_m: c.flow.as_ref().and_then(|f| f.implied_effective_diameter_m),
         nominal_nozzle_diameter_m: c.flow.as_ref().map(|f| f.nominal_effective_diameter_m),
         measured_flow_m3_s: c.flow.as_ref().map(|f| f.measured_m3_s),
         expected_throw_m: c.throw.and_then(|t| t.expected_m),
         measured_throw_m: c.throw.map(|t| t.measured_m),
+        resisting_n_m: SplitJson {
+            bearing_n_m: p.bearing_n_m,
+            seal_n_m: p.seal_n_m,
+            brake_n_m: p.brake_n_m,
+            air_n_m: p.air_n_m,
+            drive_n_m: c.split.drive_n_m,
+            excess_n_m: c.split.excess_n_m,
+        },
+        causes: c.causes.iter().map(|k| cause_json(k, dev, units)).collect(),
         findings: c
             .findings
             .iter()
             .map(|f| FindingJson {
-                finding: f.finding.clone(),
-                evidence: f.evidence.clone(),
+                kind: f.kind.key(),
+                finding: words::finding_text(f, units),
+                evidence: words::finding_evidence(f, units),
                 fault: f.fault,
             })
             .collect(),
@@ -295,65 +386,7 @@ fn throw_of(design: &Design) -> Option<f64> {
 
 /// The text report of a field check.
 pub fn check_text(design: &Design, c: &FieldCheck, units: UnitSystem) -> String {
-    let q = |dim, v| format_quantity(dim, v, units);
-    let mut s = format!(
-        "{}: field check at {}\n",
-        design.name,
-        q(D::Pressure, c.inlet_pressure_pa)
-    );
-    s.push_str(&format!(
-        "  measured {:.1} rpm (reading allows {:.1}–{:.1} rpm); expected {}\n",
-        c.measured_rpm,
-        c.measured_rpm_band[0],
-        c.measured_rpm_band[1],
-        c.expected_rpm
-            .map_or("no running speed at this pressure".into(), |r| format!(
-                "{r:.1} rpm ({:+.1} %)",
-                c.deviation_percent.unwrap_or(0.0)
-            ))
-    ));
-    if let Some(f) = c.friction {
-        s.push_str(&format!(
-            "  running friction that explains it: {} against {} by design{}\n",
-            q(D::Torque, f.implied_running_torque_n_m),
-            q(D::Torque, f.design_running_torque_n_m),
-            f.ratio.map_or(String::new(), |r| format!(" ({r:.2}×)"))
-        ));
-    }
-    if let Some(f) = &c.flow {
-        s.push_str(&format!(
-            "  flow {} against {} for new nozzles ({:+.1} %)",
-            q(D::Flow, f.measured_m3_s),
-            q(D::Flow, f.nominal_m3_s),
-            f.deviation_percent
-        ));
-        if let Some(d) = f.implied_effective_diameter_m {
-            s.push_str(&format!(
-                "; effective nozzle {} against {} nominal",
-                q(D::SmallLength, d),
-                q(D::SmallLength, f.nominal_effective_diameter_m)
-            ));
-        }
-        s.push('\n');
-    }
-    if let Some(t) = c.throw {
-        s.push_str(&format!(
-            "  throw {} measured, {} expected\n",
-            q(D::Length, t.measured_m),
-            t.expected_m.map_or("—".into(), |e| q(D::Length, e))
-        ));
-    }
-    s.push_str("\nFindings, most serious first\n");
-    for (k, f) in c.findings.iter().enumerate() {
-        s.push_str(&format!(
-            "  {}. {}{}\n     {}\n",
-            k + 1,
-            if f.fault { "" } else { "ok: " },
-            f.finding,
-            f.evidence
-        ));
-    }
-    s
+    words::check_text(&design.name, c, units)
 }
 
 /// Run `check`.
@@ -373,15 +406,25 @@ pub fn run_check(
     )
     .map_err(|e| CliError::Usage(e.to_string()))?;
     let units: UnitSystem = o.units.into();
+    if let Some(log) = &args.log {
+        super::log::append(log, &result, args.at.as_deref(), units)?;
+    } else if args.at.is_some() {
+        return Err(CliError::Usage("--at goes with --log FILE".into()));
+    }
     match o.format {
         Format::Json => {
-            serde_json::to_writer_pretty(&mut *out, &check_json(&design, &result))
+            serde_json::to_writer_pretty(&mut *out, &check_json(&design, &result, units))
                 .map_err(std::io::Error::from)?;
             writeln!(out)?;
         }
-        Format::Text => write!(out, "{}", check_text(&design, &result, units))?,
+        Format::Text => {
+            write!(out, "{}", check_text(&design, &result, units))?;
+            if let Some(log) = &args.log {
+                writeln!(out, "appended a row to the log {}", log.display())?;
+            }
+        }
         Format::Csv => {
-            let j = check_json(&design, &result);
+            let j = check_json(&design, &result, units);
             let mut w = csv::WriterBuilder::new()
                 .has_headers(false)
                 .from_writer(out);
@@ -434,7 +477,9 @@ pub fn run_check(
                 .findings
                 .iter()
                 .find(|f| f.fault)
-                .map_or("no fault found".to_string(), |f| f.finding.clone());
+                .map_or("no fault found".to_string(), |f| {
+                    words::finding_text(f, units)
+                });
             let mut record = vec![j.scenario.clone()];
             record.extend(dims.iter().map(|(_, dim, v)| {
                 v.map_or(String::new(), |x| match dim {

@@ -5,8 +5,10 @@
 //! problem worth a script's attention (stalls, no equilibrium); 2 bad input,
 //! with a message naming the file, line and field or the argument.
 
+mod fit;
 mod inverse;
 mod layout;
+mod log;
 mod solve;
 mod table;
 pub mod text;
@@ -133,6 +135,49 @@ pub enum Command {
         /// CSV without its header line, for appending to a log (with --format csv).
         #[arg(long)]
         no_header: bool,
+        /// Append a dated row to this unit's log (CSV; created with a header if missing).
+        #[arg(long, value_name = "CSV")]
+        log: Option<PathBuf>,
+        /// Date-time of the logged row, ISO 8601 (e.g. 2026-05-10T09:30; default now).
+        #[arg(long, value_name = "TIME")]
+        at: Option<String>,
+        /// Format and units of the report.
+        #[command(flatten)]
+        out: Output,
+    },
+    /// Fit the running friction and brake to readings at several pressures.
+    Fit {
+        /// The scenario file of the unit's design.
+        file: PathBuf,
+        /// Readings CSV (or a unit's log): pressure_kPa|pressure_psi, rpm, optional flow_L_min|flow_gpm, time.
+        #[arg(long, value_name = "CSV")]
+        readings: PathBuf,
+        /// Write the scenario with the fitted values here (an existing file is kept as .bak).
+        #[arg(long)]
+        out: Option<PathBuf>,
+        /// Predict the speed at this pressure (e.g. 3bar, 45psi); may be repeated.
+        #[arg(long, action = clap::ArgAction::Append)]
+        at_pressure: Vec<String>,
+        /// Which to fit: running, viscous, quadratic, comma-separated (default: as many as the readings allow).
+        #[arg(long = "fit", value_name = "NAMES")]
+        params: Option<String>,
+        /// Format and units of the report.
+        #[command(flatten)]
+        output: Output,
+    },
+    /// Fit the dry running friction and brake from a coast-down with the water off.
+    Coast {
+        /// The scenario file of the unit's design.
+        file: PathBuf,
+        /// Seconds at each completed turn after shut-off, e.g. 0.9,1.9,3.0,4.2.
+        #[arg(long, allow_hyphen_values = false)]
+        turn_times: Option<String>,
+        /// Or a CSV with time_s (seconds after shut-off) and rpm columns.
+        #[arg(long, value_name = "CSV")]
+        readings: Option<PathBuf>,
+        /// Rotor inertia, overriding the design's (e.g. 0.0012kg·m2).
+        #[arg(long)]
+        inertia: Option<String>,
         /// Format and units of the report.
         #[command(flatten)]
         out: Output,
@@ -399,6 +444,8 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             throw,
             stopwatch,
             no_header,
+            log,
+            at,
             out: o,
         } => {
             let args = inverse::CheckArgs {
@@ -412,9 +459,45 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
                 throw,
                 stopwatch,
                 no_header,
+                log,
+                at,
             };
             inverse::run_check(&file, &args, o, out)
         }
+        Command::Fit {
+            file,
+            readings,
+            out: written,
+            at_pressure,
+            params,
+            output,
+        } => fit::run_fit(
+            &file,
+            &fit::FitArgs {
+                readings,
+                out: written,
+                at_pressure,
+                params,
+            },
+            output,
+            out,
+        ),
+        Command::Coast {
+            file,
+            turn_times,
+            readings,
+            inertia,
+            out: o,
+        } => fit::run_coast(
+            &file,
+            &fit::CoastArgs {
+                turn_times,
+                readings,
+                inertia,
+            },
+            o,
+            out,
+        ),
         Command::Target {
             file,
             rpm,

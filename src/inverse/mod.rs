@@ -1,8 +1,16 @@
-//! Uses built on the forward model that vary a design: sweeps of one or two
-//! inputs, the input value that reaches a target speed or throw, and designs
-//! side by side. What may be varied, its name, unit and range come from the
-//! [`crate::catalogue`].
+//! Inverse uses of the forward model. Some vary a design: sweeps of one or two
+//! inputs ([`sweep`]), the input value that reaches a target speed or throw
+//! ([`target`]), designs side by side ([`compare`]); what may be varied, its
+//! name, unit and range come from the [`crate::catalogue`]. Others fit the
+//! model to measurements: several speed readings at different pressures
+//! ([`fit`]) and a coast-down after the water is shut off ([`coast`]), on a
+//! small Levenberg–Marquardt least squares ([`lsq`]); readings files are parsed
+//! in [`readings`]. Pure: no terminal, no files (the callers read them).
 
+pub mod coast;
 pub mod compare;
+pub mod fit;
+pub mod lsq;
+pub mod readings;
 pub mod sweep;
 pub mod target;

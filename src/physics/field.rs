@@ -38,13 +38,32 @@
 //!   measured pressure (expected) and on the as-found design (friction and
 //!   nozzles as inferred), against the measured throw.
 //!
-//! **Findings** are judged on the reading band: a quantity whose expected value
-//! lies inside the band is "within reading accuracy"; otherwise the deviation of
-//! the band's nearer end is divided by the tolerance (10 % on flow, the rule of
-//! practice that a nozzle passing more than 10 % off a new one's is replaced; 5 %
-//! on speed for the model's own accuracy, 10 % on pressure and on throw — our
-//! choices). Findings are ranked by that ratio; above 1 is a fault. Readings
-//! above 552 kPa (80 psi) call for a regulator (common practice: plumbing codes).
+//! - **Causes** ([`causes`]): the deviation from the design's own speed
+//!   taken apart — the measured pressure's share, the as-found nozzle's, and
+//!   the rest shared among bearing, seal, brake and air in proportion to their
+//!   torque at the measured speed, each with the factor it would need alone
+//!   (or named impossible: negative friction, a nozzle larger than new).
+//!
+//! **Findings** ([`findings`]) are typed values; the report layer words them
+//! in the reader's units. The first states the speed against the design (its
+//! direction the sign of measured − design) and names the cause that
+//! explains most of it. The rest are judged on the reading band: a quantity
+//! whose expected value lies inside the band is "within reading accuracy";
+//! otherwise the deviation of the band's nearer end is divided by the
+//! tolerance (10 % on flow, the rule of practice that a nozzle passing more
+//! than 10 % off a new one's is replaced; 5 % on speed for the model's own
+//! accuracy, 10 % on pressure and on throw — our choices), and ranked by that
+//! ratio; above 1 is a fault. Readings above 552 kPa (80 psi) call for a
+//! regulator (common practice: plumbing codes).
+
+pub mod causes;
+pub mod findings;
+
+pub use causes::{
+    effective_diameter, Alone, Cause, CauseEvidence, CauseInputs, CauseKind, Chain, NozzleAlone,
+    ResistSplit,
+};
+pub use findings::{Detail, Direction, Finding, FindingKind, Within};
 
 use super::balance::{rad_s, rpm, solve, solve_speed, SpinModel, SpinReport, SpinStatus};
 use super::design::{Bearing, Design, Supply};
@@ -498,59 +517,6 @@ pub struct ThrowCheck {
     pub deviation_percent: Option<f64>,
 }
 
-/// What a finding is about.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
-pub enum FindingKind {
-    /// Inlet pressure above the regulator limit.
-    RegulatorNeeded,
-    /// Inlet pressure below the design's.
-    PressureLow,
-    /// Inlet pressure above the design's.
-    PressureHigh,
-    /// Inlet pressure as designed.
-    PressureOk,
-    /// The design does not run at the measured pressure, yet the rotor turns.
-    DesignDoesNotRun,
-    /// Slower than expected.
-    Slow,
-    /// Faster than expected.
-    Fast,
-    /// Speed as expected.
-    SpeedOk,
-    /// The implied friction does not reproduce the measured speed.
-    SpeedNotExplained,
-    /// More flow than a new nozzle passes.
-    FlowHigh,
-    /// Less flow than a new nozzle passes.
-    FlowLow,
-    /// Flow as a new nozzle's.
-    FlowOk,
-    /// More flow than any nozzle size could pass.
-    FlowBeyondModel,
-    /// Shorter throw than expected.
-    ThrowShort,
-    /// Longer throw than expected.
-    ThrowLong,
-    /// Throw as expected.
-    ThrowOk,
-}
-
-/// One finding, in trade words, with the number behind it.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Finding {
-    /// What it is about.
-    pub kind: FindingKind,
-    /// True when it is outside its tolerance.
-    pub fault: bool,
-    /// The finding, e.g. "flow 14 % over nominal: nozzle worn — replace it".
-    pub finding: String,
-    /// The numbers behind it.
-    pub evidence: String,
-    /// How far outside the tolerance: the deviation of the reading band's
-    /// nearer end over the tolerance (above 1 is a fault; 0 inside the band).
-    pub score: f64,
-}
-
 /// The result of a field check.
 #[derive(Debug, Clone, PartialEq)]
 pub struct FieldCheck {
@@ -577,9 +543,21 @@ pub struct FieldCheck {
     pub as_found_nozzle_rpm: Option<f64>,
     /// Throw against the model's, when measured and a throw function was given.
     pub throw: Option<ThrowCheck>,
-    /// Findings, most serious first.
+    /// The design's own operating speed, rpm (None when it does not run).
+    pub design_rpm: Option<f64>,
+    /// How the design itself runs.
+    pub design_status: SpinStatus,
+    /// Candidate causes of the deviation from the design, ranked by how much
+    /// of it each explains (see [`causes`]).
+    pub causes: Vec<Cause>,
+    /// The resisting torque by part at the measured speed, against the drive.
+    pub split: ResistSplit,
+    /// The tolerances the check was judged on.
+    pub tolerances: FieldTolerances,
+    /// Findings: the speed against the design first, then the rest, most serious first.
     pub findings: Vec<Finding>,
-    /// The design as found: measured pressure, implied nozzles and friction.
+    /// The design as found: measured pressure, implied nozzles and friction
+    /// (the design's friction when the implied one would be negative).
     pub as_found: Design,
 }
 
@@ -779,58 +757,6 @@ fn area_equivalent(diameters: &[f64]) -> f64 {
     (diameters.iter().map(|d| d * d).sum::<f64>() / diameters.len() as f64).sqrt()
 }
 
-/// A reading judged against an expected value.
-#[derive(Debug, Clone, Copy)]
-struct Judged {
-    /// 100 · (measured − expected) / expected.
-    deviation: f64,
-    /// The expected value lies inside the reading band.
-    in_band: bool,
-    /// |deviation of the band's nearer end| / tolerance.
-    score: f64,
-}
-
-fn judge(measured: f64, band: [f64; 2], expected: f64, tolerance_percent: f64) -> Judged {
-    let pct = |x: f64| 100.0 * (x - expected) / expected;
-    let in_band = band[0] <= expected && expected <= band[1];
-    let nearer = if in_band {
-        0.0
-    } else if band[0] > expected {
-        pct(band[0])
-    } else {
-        pct(band[1])
-    };
-    Judged {
-        deviation: pct(measured),
-        in_band,
-        score: nearer.abs() / tolerance_percent,
-    }
-}
-
-fn kpa(pa: f64) -> String {
-    format!("{:.0} kPa", pa / 1000.0)
-}
-
-fn l_min(m3_s: f64) -> String {
-    format!("{:.2} L/min", m3_s * 60_000.0)
-}
-
-fn n_m(t: f64) -> String {
-    if t.abs() >= 1.0 {
-        format!("{t:.2} N·m")
-    } else {
-        format!("{t:.4} N·m")
-    }
-}
-
-fn times(k: f64) -> String {
-    if k >= 10.0 {
-        format!("{k:.0}×")
-    } else {
-        format!("{k:.1}×")
-    }
-}
-
 fn validate(reading: &FieldReading, tol: &FieldTolerances) -> Result<(), FieldError> {
     positive("pressure", reading.inlet_pressure_pa)?;
     resolution(
@@ -902,9 +828,29 @@ pub fn check(
         .flatten();
 
     let (friction, as_found) = match implied_friction(&nozzles_found, omega, band) {
-        Some((f, d)) => (Some(f), d),
+        Some((f, d)) if f.implied_running_torque_n_m >= 0.0 => (Some(f), d),
+        Some((f, _)) => (Some(f), nozzles_found.clone()),
         None => (None, nozzles_found.clone()),
     };
+    let design_rpm = own.operating.as_ref().map(|op| rpm(op.omega_rad_s()));
+    let flow_scale = flow.as_ref().and_then(|f| f.diameter_scale);
+    let (causes, split) = causes::causes(&CauseInputs {
+        at_pressure: &at_p,
+        nozzles_found: &nozzles_found,
+        measured_pa: p,
+        design_pa: design_inlet,
+        flow_scale,
+        chain: Chain {
+            design_rpm,
+            at_pressure_rpm: expected_rpm,
+            nozzles_found_rpm: if scale == 1.0 {
+                expected_rpm
+            } else {
+                as_found_nozzle_rpm
+            },
+            measured_rpm,
+        },
+    });
 
     let throw_check = match (reading.throw, throw) {
         (Some(t), Some(model)) => {
@@ -933,16 +879,15 @@ pub fn check(
         flow,
         as_found_nozzle_rpm,
         throw: throw_check,
+        design_rpm,
+        design_status: own.status,
+        causes,
+        split,
+        tolerances: *tolerances,
         findings: Vec::new(),
         as_found,
     };
-    let mut findings = Vec::new();
-    pressure_findings(&check, reading, tolerances, &mut findings);
-    speed_findings(&check, design, tolerances, &mut findings);
-    flow_findings(&check, tolerances, &mut findings);
-    throw_findings(&check, tolerances, &mut findings);
-    findings.sort_by(|a, b| b.score.total_cmp(&a.score));
-    check.findings = findings;
+    check.findings = findings::findings(&check, reading, tolerances);
     Ok(check)
 }
 
@@ -973,372 +918,6 @@ fn flow_check(at_p: &Design, omega: f64, reading: &FlowReading) -> Result<FlowCh
         nominal_diameters_m: nominal_d,
         implied_diameters_m: implied_d,
     })
-}
-
-fn pressure_findings(
-    c: &FieldCheck,
-    reading: &FieldReading,
-    tol: &FieldTolerances,
-    out: &mut Vec<Finding>,
-) {
-    let p = c.inlet_pressure_pa;
-    if p > REGULATOR_LIMIT_PA {
-        out.push(Finding {
-            kind: FindingKind::RegulatorNeeded,
-            fault: true,
-            finding: "pressure above 552 kPa (80 psi): fit a regulator".into(),
-            evidence: format!("measured {} at the inlet", kpa(p)),
-            score: p / REGULATOR_LIMIT_PA,
-        });
-    }
-    let pd = c.design_inlet_pressure_pa;
-    if pd <= 0.0 {
-        return;
-    }
-    let res = reading.pressure_resolution_pa;
-    let j = judge(p, [p - res, p + res], pd, tol.pressure_percent);
-    let evidence = format!(
-        "measured {}, design inlet {} ({:+.1} %)",
-        kpa(p),
-        kpa(pd),
-        j.deviation
-    );
-    let (kind, fault, finding) = if j.in_band {
-        (
-            FindingKind::PressureOk,
-            false,
-            "pressure as designed, within reading accuracy".to_string(),
-        )
-    } else if j.score <= 1.0 {
-        (
-            FindingKind::PressureOk,
-            false,
-            format!(
-                "pressure close to design (within {:.0} %)",
-                tol.pressure_percent
-            ),
-        )
-    } else if p < pd {
-        (
-            FindingKind::PressureLow,
-            true,
-            "pressure below design: loss upstream — check the hose, filter, valve".to_string(),
-        )
-    } else {
-        (
-            FindingKind::PressureHigh,
-            true,
-            "pressure above design: expect more flow and speed than designed".to_string(),
-        )
-    };
-    out.push(Finding {
-        kind,
-        fault,
-        finding,
-        evidence,
-        score: j.score,
-    });
-}
-
-fn speed_findings(c: &FieldCheck, design: &Design, tol: &FieldTolerances, out: &mut Vec<Finding>) {
-    let m = c.measured_rpm;
-    let [lo, hi] = c.measured_rpm_band;
-    let torque_words = c.friction.map(|f| {
-        format!(
-            "running torque that explains it {} vs {} design",
-            n_m(f.implied_running_torque_n_m),
-            n_m(f.design_running_torque_n_m)
-        )
-    });
-    let Some(e) = c.expected_rpm else {
-        let finding = match c.expected.status {
-            SpinStatus::StallsAtRest => format!(
-                "the design stalls at {}, yet the rotor turns: less breakaway friction than designed, or the pressure reading is low",
-                kpa(c.inlet_pressure_pa)
-            ),
-            _ => format!(
-                "the design finds no steady speed at {}, yet the rotor settles: more drag than designed",
-                kpa(c.inlet_pressure_pa)
-            ),
-        };
-        out.push(Finding {
-            kind: FindingKind::DesignDoesNotRun,
-            fault: true,
-            finding,
-            evidence: format!(
-                "measured {m:.1} rpm ({lo:.1}–{hi:.1}){}",
-                torque_words.map_or(String::new(), |t| format!("; {t}"))
-            ),
-            score: VOIDS_COMPARISON,
-        });
-        return;
-    };
-    let j = judge(m, c.measured_rpm_band, e, tol.speed_percent);
-    let mut evidence = format!(
-        "measured {m:.1} rpm ({lo:.1}–{hi:.1} from the reading), expected {e:.1} rpm at {} ({:+.1} %)",
-        kpa(c.inlet_pressure_pa),
-        j.deviation
-    );
-    // With a measured flow, the friction is judged against the speed the
-    // as-found nozzles would give with the design's friction.
-    let found = c
-        .as_found_nozzle_rpm
-        .map(|af| (af, judge(m, c.measured_rpm_band, af, tol.speed_percent)));
-    let (reference, jr) = found.unwrap_or((e, j));
-    if let Some((af, _)) = found {
-        evidence.push_str(&format!("; {af:.1} rpm with the nozzles as found"));
-    }
-    let design_fault = j.score > 1.0;
-    let friction_fault = jr.score > 1.0;
-    if !design_fault && !friction_fault {
-        out.push(Finding {
-            kind: FindingKind::SpeedOk,
-            fault: false,
-            finding: if j.in_band {
-                "speed as designed, within reading accuracy".into()
-            } else {
-                format!("speed close to design (within {:.0} %)", tol.speed_percent)
-            },
-            evidence,
-            score: j.score,
-        });
-    } else if !friction_fault {
-        // The nozzle alone explains the speed.
-        let slow = m < e;
-        out.push(Finding {
-            kind: if slow {
-                FindingKind::Slow
-            } else {
-                FindingKind::Fast
-            },
-            fault: true,
-            finding: if slow {
-                "spins slower than design, as the low flow explains: clear the nozzle".into()
-            } else {
-                "spins faster than design, as the worn nozzle's extra flow explains".into()
-            },
-            evidence,
-            score: j.score,
-        });
-    } else {
-        if let Some(t) = &torque_words {
-            evidence.push_str("; ");
-            evidence.push_str(t);
-        }
-        let slow = m < reference;
-        let braked = design.friction.brake.viscous > 0.0 || design.friction.brake.quadratic > 0.0;
-        let finding = match (slow, c.friction) {
-            (true, Some(f)) => match f.ratio {
-                Some(k) => format!(
-                    "bearing drag about {} design: grit in the washer or a dry seal{}",
-                    times(k),
-                    if braked {
-                        ", or brake fluid too thick"
-                    } else {
-                        ""
-                    }
-                ),
-                None => "bearing drag where the design has none: grit in the washer or a dry seal"
-                    .to_string(),
-            },
-            (true, None) => "spins slower than design: more drag than designed".to_string(),
-            (false, f) => {
-                let free = f.is_some_and(|f| f.implied_running_torque_n_m < 0.0);
-                if braked {
-                    "spins faster than design: brake fluid low or brake worn".to_string()
-                } else if free {
-                    "spins faster than the design could even with a free bearing: check the nozzle angles and the pressure gauge".to_string()
-                } else {
-                    match f.and_then(|f| f.ratio) {
-                        Some(k) => format!(
-                            "spins faster than design: bearing drag about {} design",
-                            times(k)
-                        ),
-                        None => "spins faster than design".to_string(),
-                    }
-                }
-            }
-        };
-        out.push(Finding {
-            kind: if slow {
-                FindingKind::Slow
-            } else {
-                FindingKind::Fast
-            },
-            fault: true,
-            finding,
-            evidence,
-            score: jr.score,
-        });
-    }
-    // The implied friction should make the measured speed the model's own.
-    if let Some(f) = c.friction {
-        let reproduced = f.model_rpm.is_some_and(|r| ((r - m) / m).abs() <= 1e-4);
-        if !reproduced {
-            out.push(Finding {
-                kind: FindingKind::SpeedNotExplained,
-                fault: true,
-                finding: "bearing drag alone does not explain the measured speed: check the nozzle angles and for rubbing parts".into(),
-                evidence: match f.model_rpm {
-                    Some(r) => format!("with the implied drag the model settles at {r:.1} rpm, not {m:.1}"),
-                    None => "with the implied drag the model does not settle at any speed".into(),
-                },
-                score: 1.0,
-            });
-        }
-    }
-}
-
-fn flow_findings(c: &FieldCheck, tol: &FieldTolerances, out: &mut Vec<Finding>) {
-    let Some(f) = &c.flow else { return };
-    if f.nominal_m3_s <= 0.0 {
-        return;
-    }
-    let j = judge(
-        f.measured_m3_s,
-        f.band_m3_s,
-        f.nominal_m3_s,
-        tol.flow_percent,
-    );
-    let mut evidence = format!(
-        "measured {} ({:.2}–{}), a new nozzle passes {} at {} and {:.1} rpm ({:+.1} %)",
-        l_min(f.measured_m3_s),
-        f.band_m3_s[0] * 60_000.0,
-        l_min(f.band_m3_s[1]),
-        l_min(f.nominal_m3_s),
-        kpa(c.inlet_pressure_pa),
-        c.measured_rpm,
-        j.deviation
-    );
-    if let Some(d) = f.implied_effective_diameter_m {
-        evidence.push_str(&format!(
-            "; effective nozzle {:.2} mm vs {:.2} mm nominal",
-            d * 1e3,
-            f.nominal_effective_diameter_m * 1e3
-        ));
-    }
-    let (kind, fault, finding) = if f.diameter_scale.is_none() {
-        (
-            FindingKind::FlowBeyondModel,
-            true,
-            "more flow than the arms can pass at this pressure: check the flow reading and look for a leak at the swivel".to_string(),
-        )
-    } else if j.in_band {
-        (
-            FindingKind::FlowOk,
-            false,
-            "flow as a new nozzle's, within reading accuracy".to_string(),
-        )
-    } else if j.score <= 1.0 {
-        (
-            FindingKind::FlowOk,
-            false,
-            format!("flow within {:.0} % of a new nozzle's", tol.flow_percent),
-        )
-    } else if j.deviation > 0.0 {
-        (
-            FindingKind::FlowHigh,
-            true,
-            format!(
-                "flow {:.0} % over nominal: nozzle worn — replace it",
-                j.deviation
-            ),
-        )
-    } else {
-        (
-            FindingKind::FlowLow,
-            true,
-            format!(
-                "flow {:.0} % under nominal: nozzle partly clogged — clean or replace it",
-                -j.deviation
-            ),
-        )
-    };
-    let score = if kind == FindingKind::FlowBeyondModel {
-        j.score.max(1.0)
-    } else {
-        j.score
-    };
-    out.push(Finding {
-        kind,
-        fault,
-        finding,
-        evidence,
-        score,
-    });
-}
-
-fn throw_findings(c: &FieldCheck, tol: &FieldTolerances, out: &mut Vec<Finding>) {
-    let Some(t) = &c.throw else { return };
-    let Some(e) = t.expected_m else { return };
-    let j = judge(t.measured_m, t.band_m, e, tol.throw_percent);
-    let mut evidence = format!(
-        "measured {:.1} m ({:.1}–{:.1}), expected {:.1} m at {} ({:+.1} %)",
-        t.measured_m,
-        t.band_m[0],
-        t.band_m[1],
-        e,
-        kpa(c.inlet_pressure_pa),
-        j.deviation
-    );
-    if let Some(af) = t.as_found_m {
-        evidence.push_str(&format!("; {af:.1} m with the speed and flow as found"));
-    }
-    let explained = t
-        .as_found_m
-        .is_some_and(|af| judge(t.measured_m, t.band_m, af, tol.throw_percent).score <= 1.0);
-    let (kind, fault, finding) = if j.in_band {
-        (
-            FindingKind::ThrowOk,
-            false,
-            "throw as designed, within reading accuracy".to_string(),
-        )
-    } else if j.score <= 1.0 {
-        (
-            FindingKind::ThrowOk,
-            false,
-            format!("throw within {:.0} % of design", tol.throw_percent),
-        )
-    } else if t.measured_m < e {
-        (
-            FindingKind::ThrowShort,
-            true,
-            if explained {
-                format!(
-                    "throw {:.0} % short, as the speed and flow found explain",
-                    -j.deviation
-                )
-            } else {
-                format!(
-                    "throw {:.0} % short of expected: nozzle damaged or partly blocked (the jet breaks up early), or wind during the test",
-                    -j.deviation
-                )
-            },
-        )
-    } else {
-        (
-            FindingKind::ThrowLong,
-            true,
-            if explained {
-                format!(
-                    "throw {:.0} % long, as the speed and flow found explain",
-                    j.deviation
-                )
-            } else {
-                format!(
-                    "throw {:.0} % beyond expected: larger drops than the model assumes — calibrate the spray to this throw",
-                    j.deviation
-                )
-            },
-        )
-    };
-    out.push(Finding {
-        kind,
-        fault,
-        finding,
-        evidence,
-        score: j.score,
-    });
 }
 
 #[cfg(test)]
@@ -1438,7 +1017,32 @@ mod tests {
         assert!((f.implied_mu_kinetic.unwrap() - 0.30).abs() < 1e-6);
         let top = &c.findings[0];
         assert_eq!(top.kind, FindingKind::Slow);
-        assert!(top.finding.contains("3.0× design"), "{}", top.finding);
+        assert_eq!(top.direction(), Some(Direction::Slower));
+        // The bearing alone would need its μ_k three times the design's.
+        let bearing = c
+            .causes
+            .iter()
+            .find(|k| k.kind == CauseKind::Bearing)
+            .unwrap();
+        match bearing.evidence {
+            CauseEvidence::Part {
+                alone: Alone::Factor { factor, .. },
+                ..
+            } => assert!((factor - 3.0).abs() < 1e-6, "{factor}"),
+            other => panic!("{other:?}"),
+        }
+        // Each part's share of the slowdown adds up to the whole of it.
+        let dev = c.measured_rpm - c.design_rpm.unwrap();
+        let parts: f64 = c
+            .causes
+            .iter()
+            .filter(|k| matches!(k.evidence, CauseEvidence::Part { .. }))
+            .filter_map(|k| k.explains_rpm)
+            .sum();
+        assert!(
+            (parts - dev).abs() < 1e-9 * dev.abs().max(1.0),
+            "{parts} vs {dev}"
+        );
     }
 
     #[test]
@@ -1467,7 +1071,8 @@ mod tests {
         let f = c.friction.unwrap();
         assert!((f.implied_mu_kinetic.unwrap() / 0.10 - 1.0).abs() < 1e-6);
         assert!(!kinds.contains(&FindingKind::Slow));
-        // Ranked by score, most serious first.
-        assert!(c.findings.windows(2).all(|w| w[0].score >= w[1].score));
+        // The speed first, the rest ranked by score, most serious first.
+        assert!(matches!(c.findings[0].detail, Detail::Speed { .. }));
+        assert!(c.findings[1..].windows(2).all(|w| w[0].score >= w[1].score));
     }
 }

@@ -1,7 +1,8 @@
 //! View 4, Field: readings taken at a running sprinkler (inlet pressure,
 //! rotation, optionally flow and wetted radius) against what the design
-//! expects at that pressure, the bearing friction that would explain the
-//! speed, and the findings in trade words, most serious first.
+//! expects, the findings in trade words (the speed against the design first),
+//! the candidate causes ranked by how much of the deviation each explains and
+//! the resisting torque's split.
 
 use ratatui::layout::Rect;
 use ratatui::style::Modifier;
@@ -10,6 +11,7 @@ use ratatui::widgets::{Paragraph, Wrap};
 use ratatui::Frame;
 
 use crate::physics::field::{FieldCheck, FlowReading, RotationReading};
+use crate::report::field as words;
 use crate::tui::app::App;
 use crate::units::{format_quantity, Dimension as D};
 
@@ -98,8 +100,10 @@ fn check_lines(app: &App, c: &FieldCheck) -> Vec<Line<'static>> {
     ])];
     lines.push(Line::raw(match (c.expected_rpm, c.deviation_percent) {
         (Some(e), Some(d)) => format!(
-            "expected {e:.1} rpm at {} ({d:+.1} %); the design's own inlet is {}",
+            "expected {e:.1} rpm at {} ({:.1} % {}); the design's own inlet is {}",
             q(D::Pressure, c.inlet_pressure_pa),
+            d.abs(),
+            if d < 0.0 { "below" } else { "above" },
             q(D::Pressure, c.design_inlet_pressure_pa)
         ),
         _ => format!(
@@ -107,14 +111,6 @@ fn check_lines(app: &App, c: &FieldCheck) -> Vec<Line<'static>> {
             q(D::Pressure, c.inlet_pressure_pa)
         ),
     }));
-    if let Some(f) = &c.friction {
-        lines.push(Line::raw(format!(
-            "running friction that explains it: {} against {} by design{}",
-            q(D::Torque, f.implied_running_torque_n_m),
-            q(D::Torque, f.design_running_torque_n_m),
-            f.ratio.map_or(String::new(), |r| format!(" ({r:.2}×)"))
-        )));
-    }
     if let Some(f) = &c.flow {
         let mut s = format!(
             "flow {} against {} for new nozzles ({:+.1} %)",
@@ -139,7 +135,10 @@ fn check_lines(app: &App, c: &FieldCheck) -> Vec<Line<'static>> {
         )));
     }
     lines.push(Line::raw(""));
-    lines.push(Line::styled("findings, most serious first", t.heading()));
+    lines.push(Line::styled(
+        "findings: the speed first, then the rest, most serious first",
+        t.heading(),
+    ));
     for (k, f) in c.findings.iter().enumerate() {
         let (mark, style) = if f.fault {
             ("✗", t.bad().add_modifier(Modifier::BOLD))
@@ -148,9 +147,37 @@ fn check_lines(app: &App, c: &FieldCheck) -> Vec<Line<'static>> {
         };
         lines.push(Line::from(vec![
             Span::styled(format!(" {mark} "), style),
-            Span::raw(format!("{}. {}", k + 1, f.finding)),
+            Span::raw(format!("{}. {}", k + 1, words::finding_text(f, app.units))),
         ]));
-        lines.push(Line::styled(format!("     {}", f.evidence), t.dim()));
+        lines.push(Line::styled(
+            format!("     {}", words::finding_evidence(f, app.units)),
+            t.dim(),
+        ));
+        if k == 0 && words::show_causes(c) {
+            lines.push(Line::styled(
+                "   causes, by how much of the deviation each explains",
+                t.heading(),
+            ));
+            let dev = words::deviation_rpm(c);
+            for cause in &c.causes {
+                let style = if cause.impossible() {
+                    t.dim()
+                } else {
+                    ratatui::style::Style::default()
+                };
+                lines.push(Line::styled(
+                    format!("   · {}", words::cause_text(cause, dev, app.units)),
+                    style,
+                ));
+            }
+            lines.push(Line::styled(
+                format!(
+                    "   {}",
+                    words::split_text(&c.split, c.measured_rpm, app.units)
+                ),
+                t.dim(),
+            ));
+        }
     }
     lines
 }
