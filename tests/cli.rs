@@ -573,7 +573,10 @@ fn layout_csv_has_no_float_noise() {
                 assert!(digits(f) <= 12, "{f}");
             }
         }
-        assert!(!csv.contains("0000000") && !csv.contains("9999999"), "{csv}");
+        assert!(
+            !csv.contains("0000000") && !csv.contains("9999999"),
+            "{csv}"
+        );
     }
 }
 

@@ -25,9 +25,9 @@ use crate::physics::field::{
 };
 use crate::physics::layout::OverlapOptions;
 use crate::physics::pattern::PatternOptions;
+use crate::report::field as words;
 use crate::scenario::{self, save_scenario, Scenario};
 use crate::units::{csv_key, format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
-use crate::report::field as words;
 
 /// The dimension an input's values are typed in, `None` for a bare number
 /// (coefficients, and brakes, which are SI in both unit systems).

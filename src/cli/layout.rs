@@ -19,9 +19,7 @@ use crate::physics::layout::{
 };
 use crate::physics::pattern::{PatternOptions, M_S_TO_MM_H};
 use crate::rate_map::{self, runtime_factor_words, Ink, RateMap};
-use crate::units::{
-    csv_key, format_quantity, to_display, Dimension as D, UnitSystem,
-};
+use crate::units::{csv_key, format_quantity, to_display, Dimension as D, UnitSystem};
 
 /// Options of the `layout` command beyond format and units.
 #[derive(Debug, Clone)]

@@ -261,9 +261,7 @@ impl Scenario {
         let site = d::Site {
             air_temperature_c: c.input(&cat::AIR_TEMPERATURE, None, self.air.temperature),
             altitude_m: c.input(&cat::ALTITUDE, None, self.air.altitude),
-            clearance_m: self
-                .clearance
-                .map(|h| c.input(&cat::CLEARANCE, None, h)),
+            clearance_m: self.clearance.map(|h| c.input(&cat::CLEARANCE, None, h)),
         };
 
         let supply = match self.supply {

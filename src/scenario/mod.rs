@@ -23,8 +23,8 @@
 //! is accepted there; a value out of range names its field path and the range.
 
 mod convert;
-mod locate;
 mod edit;
+mod locate;
 mod save;
 pub mod schema;
 mod starter;
