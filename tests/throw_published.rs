@@ -232,3 +232,30 @@ fn intact_length_of_a_well_made_nozzle() {
     let default = break_up(&jet, &e, &JetModel::default()).unwrap();
     assert!(default.intact_length_m > theobald.intact_length_m);
 }
+
+/// Identical arms evenly spread are flown once with their flows added (still
+/// air is the same in every direction): the same radius as the full profile.
+#[test]
+fn identical_arms_share_their_flights() {
+    let e = env();
+    let one = nozzle(3e-3, 250e3, 25.0, 0.5);
+    let one = JetExit {
+        position_m: Vector3::new(0.2, 0.0, 0.5),
+        ..one
+    };
+    let three: Vec<JetExit> = (0..3)
+        .map(|k| one.turned(2.0 * PI * k as f64 / 3.0))
+        .collect();
+    let quick =
+        wetted_radius(&three, &SpraySpec::default(), &e, &FlightOptions::pattern()).unwrap();
+    let full = radial_pattern(
+        &three,
+        &SpraySpec::default(),
+        &e,
+        0.0,
+        &PatternOptions::default(),
+    )
+    .unwrap();
+    assert!((quick.standard_m - full.wetted_radius_m).abs() < 2e-3 * full.wetted_radius_m);
+    assert!((quick.farthest_drop_m - full.farthest_drop_m).abs() < 1e-9);
+}

@@ -190,6 +190,18 @@ pub struct Breakup {
     pub initial_drag_factor: f64,
 }
 
+impl Breakup {
+    /// The same release after the rotor has turned by `angle_rad` about +z.
+    pub fn turned(&self, angle_rad: f64) -> Breakup {
+        let rot = nalgebra::Rotation3::from_axis_angle(&Vector3::z_axis(), angle_rad);
+        Breakup {
+            point_m: rot * self.point_m,
+            velocity_m_s: rot * self.velocity_m_s,
+            ..*self
+        }
+    }
+}
+
 /// Arc-length primitive of the drag-free path: s(t) = (G(v_z) − G(v_z − g t))/g
 /// with G(u) = ½ (u √(v_h² + u²) + v_h² asinh(u / v_h)).
 fn arc_primitive(u: f64, vh: f64) -> f64 {
@@ -387,7 +399,8 @@ pub fn break_up(jet: &JetExit, env: &FlightEnv, model: &JetModel) -> Result<Brea
 /// Drag factor φ at distance `s_m` from the breakup point, starting from
 /// `initial` (module docs); 1 when the spray is not sheltered (`relaxation_m` ≤ 0).
 pub fn drag_factor(s_m: f64, relaxation_m: f64, initial: f64) -> f64 {
-    if relaxation_m > 0.0 {
+    // Beyond 40 relaxation lengths the factor is 1 to 4e-18.
+    if relaxation_m > 0.0 && s_m < 40.0 * relaxation_m {
         1.0 - (1.0 - initial) * (-s_m / relaxation_m).exp()
     } else {
         1.0

@@ -407,7 +407,16 @@ pub fn wetted_radius(
     let threshold = wetting_threshold_mm_h(total);
     let mut pieces = Vec::new();
     let mut farthest = 0.0f64;
+    // In still air a jet turned about the axis lands its drops as far out:
+    // identical arms are flown once, with their flows added.
+    let mut families: Vec<JetExit> = Vec::new();
     for jet in flowing {
+        match families.iter_mut().find(|f| same_jet_any_turn(f, jet)) {
+            Some(f) => f.flow_m3_s += jet.flow_m3_s,
+            None => families.push(*jet),
+        }
+    }
+    for jet in &families {
         let spectrum = Spectrum::for_jet(spec, jet, &still, DEFAULT_BINS)?;
         let stream = IntactStream::new(jet, &still, &flight.jet)?;
         let fly = |d: f64| -> Result<f64, ThrowError> {
@@ -681,6 +690,36 @@ fn cross(a: Vector2<f64>, b: Vector2<f64>) -> f64 {
     a.x * b.y - a.y * b.x
 }
 
+/// True when `jet` is `a` turned about +z by some angle (same nozzle, height,
+/// distance from the axis and velocity in the arm's own frame), to 1e-12.
+fn same_jet_any_turn(a: &JetExit, jet: &JetExit) -> bool {
+    let local = |j: &JetExit| {
+        let r = j.position_m.xy();
+        let n = r.norm();
+        let (c, s) = if n > 0.0 {
+            (r.x / n, r.y / n)
+        } else {
+            (1.0, 0.0)
+        };
+        let v = j.velocity_m_s;
+        [
+            n,
+            j.position_m.z,
+            v.x * c + v.y * s,
+            -v.x * s + v.y * c,
+            v.z,
+            j.nozzle_diameter_m,
+            j.nozzle_pressure_pa,
+            j.omega_rad_s,
+        ]
+    };
+    let (p, q) = (local(a), local(jet));
+    p.iter()
+        .zip(&q)
+        .all(|(x, y)| (x - y).abs() <= 1e-12 * x.abs().max(y.abs()).max(1e-300))
+        && a.position_m.xy().norm() > 0.0
+}
+
 /// If `jet` is `rep` turned by a whole number m of azimuth steps (and has the
 /// same nozzle, so the same spectrum), returns m mod `n_az`.
 fn same_jet_turned(rep: &JetExit, jet: &JetExit, step: f64, n_az: usize) -> Option<usize> {
@@ -761,21 +800,31 @@ pub fn windy_pattern(
         .filter(|&j| source.get(j).is_some_and(|s| s.0 == j))
         .flat_map(|j| (0..n_az).map(move |k| (j, k)))
         .collect();
-    let flown = tasks
-        .par_iter()
-        .map(|&(j, k)| {
-            let (jet, spectrum) = match (flowing.get(j), spectra.get(j)) {
-                (Some(jet), Some(s)) => (jet, s),
-                _ => return Ok(Vec::new()),
-            };
-            let turned = jet.turned(2.0 * PI * k as f64 / n_az as f64);
-            let stream = IntactStream::new(&turned, env, &flight.jet)?;
+    // Where each edge's drops leave the stream, at azimuth 0: the intact
+    // stream does not feel the wind, so at azimuth k it is the same turned.
+    let releases = flowing
+        .iter()
+        .zip(&spectra)
+        .map(|(jet, spectrum)| {
+            let stream = IntactStream::new(jet, env, &flight.jet)?;
             spectrum
                 .edges_m()
                 .iter()
-                .map(|&d| {
-                    let from = stream.release(release_fraction(d, spectrum.largest_m))?;
-                    fly_from_breakup(&from, d, env, &flight)
+                .map(|&d| Ok((d, stream.release(release_fraction(d, spectrum.largest_m))?)))
+                .collect::<Result<Vec<(f64, Breakup)>, ThrowError>>()
+        })
+        .collect::<Result<Vec<_>, ThrowError>>()?;
+    let flown = tasks
+        .par_iter()
+        .map(|&(j, k)| {
+            let Some(edges) = releases.get(j) else {
+                return Ok(Vec::new());
+            };
+            let angle = 2.0 * PI * k as f64 / n_az as f64;
+            edges
+                .iter()
+                .map(|(d, from)| {
+                    fly_from_breakup(&from.turned(angle), *d, env, &flight)
                         .map(|l| Vector2::new(l.point_m.x, l.point_m.y))
                 })
                 .collect::<Result<Vec<Vector2<f64>>, ThrowError>>()
