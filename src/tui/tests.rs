@@ -732,3 +732,18 @@ fn practice_warnings_show_in_the_status_line_and_the_balance_view() {
     let s = screen(&mut a, 80, 24);
     assert!(s.lines().next().unwrap().contains("rpm ⚠ 3"), "{s}");
 }
+
+#[test]
+fn pattern_view_says_when_heads_do_not_meet() {
+    let mut a = app();
+    a.event(&key(KeyCode::Char('3')));
+    select(&mut a, Field::of(&cat::SQUARE_SPACING));
+    a.event(&key(KeyCode::Enter));
+    clear_input(&mut a);
+    typed(&mut a, "60m");
+    a.event(&key(KeyCode::Enter));
+    assert!(a.settle(SETTLE));
+    let shown = screen(&mut a, 100, 30);
+    assert!(shown.contains("heads do not meet"), "{shown}");
+    assert!(!shown.contains("CU -"), "{shown}");
+}

@@ -72,6 +72,20 @@ pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
                 second.push_str(&format!(" · Q/area {}", rate(l.expected_rate_mm_h)));
             }
             head.push(Line::raw(second));
+            if !l.heads_meet {
+                head.push(Line::styled(
+                    format!(
+                        "heads do not meet: {:.0} % of the ground stays dry{}",
+                        l.dry_percent,
+                        if l.uniformity.cu_clamped {
+                            " (CU formula below zero, shown as 0)"
+                        } else {
+                            ""
+                        }
+                    ),
+                    t.error(),
+                ));
+            }
         }
         Some(Err(e)) => head.push(Line::styled(format!("layout: {e}"), t.error())),
         None => head.push(Line::styled(
