@@ -2,11 +2,13 @@
 //! rotating-arm sprinklers.
 //!
 //! - [`physics`]: the pure model (SI in, SI out).
+//! - [`numeric`]: root finding and the ODE stepper the model stands on (no physics).
 //! - [`units`]: quantities typed with units, and values shown in metric or US units.
 //! - [`catalogue`]: every design input written once: file path, label, unit,
 //!   range, nudge step, get/set; validation, the editable list, sweeps, targets
 //!   and comparisons are derived from it.
-//! - [`inverse`]: sweeps, target searches and comparisons over catalogue inputs.
+//! - [`inverse`]: sweeps, target searches and comparisons over catalogue inputs,
+//!   and the model fitted to readings (several speeds, a coast-down).
 //! - [`words`]: typed results (practice cautions) in words, in the chosen units.
 //! - [`scenario`]: the scenario file (RON with unit tags), its validation into a
 //!   [`physics::design::Design`], writing a design back, and safe saving.
@@ -36,6 +38,7 @@ pub mod catalogue;
 pub mod cli;
 pub mod crash;
 pub mod inverse;
+pub mod numeric;
 pub mod physics;
 pub mod rate_map;
 pub mod report;

@@ -243,12 +243,12 @@ fn garden_hose_table_through_the_line_loss_model() {
             let residual = |q: f64| {
                 hose.loss_pa(q, water.density_kg_m3, water.viscosity_pa_s) + exit_head(q) - p
             };
-            let tol = spinwright::physics::root::Tolerance {
+            let tol = spinwright::numeric::root::Tolerance {
                 x: 1e-12,
                 f: 1e-6,
                 max_iter: 200,
             };
-            let q = spinwright::physics::root::brent(residual, 1e-7, 0.05, tol).expect("bracketed");
+            let q = spinwright::numeric::root::brent(residual, 1e-7, 0.05, tol).expect("bracketed");
             let ratio = q / gpm / expected_gpm;
             assert!(
                 (0.9..=1.1).contains(&ratio),

@@ -506,9 +506,9 @@ pub fn run(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::numeric::root::RootError;
     use crate::physics::balance::Warning;
     use crate::physics::fixtures::three_arm_rotor;
-    use crate::physics::root::RootError;
 
     #[test]
     fn a_failed_root_search_reaches_the_report_with_its_bracket() {

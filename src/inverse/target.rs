@@ -21,9 +21,9 @@
 use rayon::prelude::*;
 
 use crate::catalogue::{Input, Search, VaryError};
+use crate::numeric::root::{brent, RootError, Tolerance};
 use crate::physics::balance::{rad_s, rpm, solve, solve_speed, SpinReport};
 use crate::physics::design::Design;
-use crate::physics::root::{brent, RootError, Tolerance};
 pub use crate::physics::ThrowFn;
 
 /// Points on the scan grid of an input's range.

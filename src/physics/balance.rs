@@ -17,10 +17,10 @@ use std::f64::consts::PI;
 use super::design::{Design, Inertia};
 use super::hydraulics::{supply_state_near, Fluids, SupplyState};
 use super::jet::JetExit;
-use super::root::{brent, RootError, Tolerance};
 use super::torque::{
     drive_torque, jet_kinetic_power_w, jets, resisting_torque, Motion, ResistingTorque,
 };
+use crate::numeric::root::{brent, RootError, Tolerance};
 
 /// Tip speed that bounds the equilibrium search, m/s.
 pub const CAP_TIP_SPEED_M_S: f64 = 150.0;

@@ -78,8 +78,8 @@
 //! `tests/reference/throw_constants_fit.txt`).
 
 use super::jet::JetExit;
-use super::root::{brent, Tolerance};
 use super::trajectory::{require_positive, FlightEnv, ThrowError};
+use crate::numeric::root::{brent, Tolerance};
 use nalgebra::Vector3;
 
 /// Default breakup coefficient C_b (Valencia, Zheng & Marshall 2022).

@@ -67,9 +67,9 @@ pub use findings::{Detail, Direction, Finding, FindingKind, Within};
 
 use super::balance::{rad_s, rpm, solve, solve_speed, SpinModel, SpinReport, SpinStatus};
 use super::design::{Bearing, Design, Supply};
-use super::root::{brent, Tolerance};
 use super::torque::{washer_axial_force_n, washer_effective_radius_m};
 use super::ThrowFn;
+use crate::numeric::root::{brent, Tolerance};
 
 /// Default stopwatch resolution for hand timing, s (common practice: a hand
 /// stopwatch is good to about 0.2 s, reaction time included).

@@ -15,7 +15,6 @@
 //! - [`layout`]: head layouts, overlap, CU / DU and the soil-intake check (M9).
 //! - [`checks`]: practice checks of a solved design (start margin, speed, spin-up, clearance).
 //! - [`coverage`]: the spin state handed to throw, pattern and layout (M6 → M7–M9).
-//! - [`root`]: bracketed root finding with the bracket kept for reports.
 //! - [`field`]: field check, readings at a running sprinkler against its design (M10).
 
 pub mod balance;
@@ -31,7 +30,6 @@ pub mod jet;
 pub mod layout;
 pub mod pattern;
 pub mod pipe;
-pub mod root;
 pub mod spray;
 pub mod torque;
 pub mod trajectory;

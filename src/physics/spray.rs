@@ -52,9 +52,8 @@ use super::breakup::{JetModel, DEFAULT_BREAKUP_COEFFICIENT, PLAUSIBLE_BREAKUP};
 use super::design::SpraySpec;
 use super::jet::JetExit;
 use super::pattern::{wetted_radius, WettedRadius};
-use super::trajectory::{
-    invalid, require_positive, FlightEnv, FlightOptions, ThrowError, Tolerances,
-};
+use super::trajectory::{invalid, require_positive, FlightEnv, FlightOptions, ThrowError};
+use crate::numeric::root::{brent, Tolerance};
 use std::f64::consts::LN_2;
 
 /// Default number of drop-size bins per nozzle.
@@ -370,14 +369,12 @@ pub fn calibrate(
         });
     }
     let mut failure = None;
-    let mut tol = Tolerances {
-        x_tol: 1e-7,
-        f_tol: 1e-6 * measured_radius_m,
+    let tol = Tolerance {
+        x: 1e-7,
+        f: 1e-6 * measured_radius_m,
         max_iter: 200,
     };
-    let found = roots::find_root_brent(
-        lo,
-        hi,
+    let found = brent(
         |c: f64| match radius(c) {
             Ok(r) => r - measured_radius_m,
             Err(e) => {
@@ -385,7 +382,9 @@ pub fn calibrate(
                 0.0
             }
         },
-        &mut tol,
+        lo,
+        hi,
+        tol,
     );
     if let Some(e) = failure {
         return Err(e);

@@ -53,6 +53,10 @@ use super::breakup::{break_up, drag_factor, Breakup, IntactStream, JetModel};
 use super::design::{Wind, GRAVITY_M_S2};
 use super::fluid::{AirProps, WaterProps};
 use super::jet::JetExit;
+use crate::numeric::ode::{
+    attempt, grow_factor, initial_step, shrink_factor, Attempt, DenseStep, State,
+};
+use crate::numeric::root::{brent, Tolerance};
 use nalgebra::Vector3;
 use std::fmt;
 
@@ -133,31 +137,6 @@ fn require_finite_vector(field: &str, v: &Vector3<f64>) -> Result<(), ThrowError
             field: field.to_string(),
             detail: "has a component that is not a finite number".to_string(),
         })
-    }
-}
-
-/// A convergence rule for `roots` with separate tolerances on x and on f(x).
-///
-/// `roots::SimpleConvergency` uses one epsilon for both, which is wrong when
-/// x and f have different units or scales.
-pub(crate) struct Tolerances {
-    /// Absolute tolerance on the bracket width.
-    pub x_tol: f64,
-    /// Absolute tolerance on |f(x)|.
-    pub f_tol: f64,
-    /// Iteration limit.
-    pub max_iter: usize,
-}
-
-impl roots::Convergency<f64> for Tolerances {
-    fn is_root_found(&mut self, y: f64) -> bool {
-        y.abs() <= self.f_tol
-    }
-    fn is_converged(&mut self, x1: f64, x2: f64) -> bool {
-        (x1 - x2).abs() <= self.x_tol
-    }
-    fn is_iteration_limit_reached(&mut self, iter: usize) -> bool {
-        iter >= self.max_iter
     }
 }
 
@@ -390,9 +369,6 @@ pub struct FlightPath {
     pub points: Vec<PathPoint>,
 }
 
-/// State vector: position (m) then velocity (m/s).
-type State = [f64; 6];
-
 /// The right-hand side of the flight equations for one drop.
 struct Drop {
     /// 3 ρ_air F(d) / (4 ρ_w d), 1/m.
@@ -446,186 +422,6 @@ impl Drop {
         }
         [y[3], y[4], y[5], -c * u[0], -c * u[1], -self.g - c * u[2]]
     }
-}
-
-// Dormand–Prince 5(4) coefficients (Dormand & Prince 1980; dense output
-// Shampine 1986, as tabulated in scipy.integrate RK45).
-// The flight equations do not depend on time, so the nodes c_i are not needed.
-const A21: f64 = 1.0 / 5.0;
-const A31: f64 = 3.0 / 40.0;
-const A32: f64 = 9.0 / 40.0;
-const A41: f64 = 44.0 / 45.0;
-const A42: f64 = -56.0 / 15.0;
-const A43: f64 = 32.0 / 9.0;
-const A51: f64 = 19372.0 / 6561.0;
-const A52: f64 = -25360.0 / 2187.0;
-const A53: f64 = 64448.0 / 6561.0;
-const A54: f64 = -212.0 / 729.0;
-const A61: f64 = 9017.0 / 3168.0;
-const A62: f64 = -355.0 / 33.0;
-const A63: f64 = 46732.0 / 5247.0;
-const A64: f64 = 49.0 / 176.0;
-const A65: f64 = -5103.0 / 18656.0;
-const B1: f64 = 35.0 / 384.0;
-const B3: f64 = 500.0 / 1113.0;
-const B4: f64 = 125.0 / 192.0;
-const B5: f64 = -2187.0 / 6784.0;
-const B6: f64 = 11.0 / 84.0;
-/// Error weights: 5th-order minus 4th-order weights (k1..k7).
-const E: [f64; 7] = [
-    -71.0 / 57600.0,
-    0.0,
-    71.0 / 16695.0,
-    -71.0 / 1920.0,
-    17253.0 / 339200.0,
-    -22.0 / 525.0,
-    1.0 / 40.0,
-];
-/// Dense output: y(t + θh) = y + h Σ_k K_k Σ_j P[k][j] θ^(j+1).
-const P: [[f64; 4]; 7] = [
-    [
-        1.0,
-        -8048581381.0 / 2820520608.0,
-        8663915743.0 / 2820520608.0,
-        -12715105075.0 / 11282082432.0,
-    ],
-    [0.0, 0.0, 0.0, 0.0],
-    [
-        0.0,
-        131558114200.0 / 32700410799.0,
-        -68118460800.0 / 10900136933.0,
-        87487479700.0 / 32700410799.0,
-    ],
-    [
-        0.0,
-        -1754552775.0 / 470086768.0,
-        14199869525.0 / 1410260304.0,
-        -10690763975.0 / 1880347072.0,
-    ],
-    [
-        0.0,
-        127303824393.0 / 49829197408.0,
-        -318862633887.0 / 49829197408.0,
-        701980252875.0 / 199316789632.0,
-    ],
-    [
-        0.0,
-        -282668133.0 / 205662961.0,
-        2019193451.0 / 616988883.0,
-        -1453857185.0 / 822651844.0,
-    ],
-    [
-        0.0,
-        40617522.0 / 29380423.0,
-        -110615467.0 / 29380423.0,
-        69997945.0 / 29380423.0,
-    ],
-];
-
-const SAFETY: f64 = 0.9;
-const MIN_FACTOR: f64 = 0.2;
-const MAX_FACTOR: f64 = 10.0;
-
-/// One accepted step with what the dense output needs.
-#[derive(Debug, Clone, Copy)]
-struct DenseStep {
-    t0: f64,
-    h: f64,
-    y0: State,
-    k: [State; 7],
-}
-
-impl DenseStep {
-    /// State at fraction `theta` ∈ [0, 1] of the step.
-    fn at(&self, theta: f64) -> State {
-        let powers = [theta, theta * theta, theta.powi(3), theta.powi(4)];
-        let mut out = self.y0;
-        for (k_stage, p_row) in self.k.iter().zip(P.iter()) {
-            let w = self.h
-                * (p_row[0] * powers[0]
-                    + p_row[1] * powers[1]
-                    + p_row[2] * powers[2]
-                    + p_row[3] * powers[3]);
-            if w != 0.0 {
-                for (o, ki) in out.iter_mut().zip(k_stage.iter()) {
-                    *o += w * ki;
-                }
-            }
-        }
-        out
-    }
-
-    /// Height z at fraction `theta` of the step (the third state component).
-    fn z_at(&self, theta: f64) -> f64 {
-        let powers = [theta, theta * theta, theta.powi(3), theta.powi(4)];
-        let mut z = self.y0[2];
-        for (k_stage, p_row) in self.k.iter().zip(P.iter()) {
-            let w = p_row[0] * powers[0]
-                + p_row[1] * powers[1]
-                + p_row[2] * powers[2]
-                + p_row[3] * powers[3];
-            z += self.h * w * k_stage[2];
-        }
-        z
-    }
-}
-
-/// y + h Σ c_i k_i over a fixed number of stages (unrolled by the compiler).
-fn axpy<const N: usize>(y: &State, h: f64, c: [f64; N], k: [&State; N]) -> State {
-    let mut sum = [0.0; 6];
-    for (cj, kj) in c.iter().zip(k) {
-        for (s, kv) in sum.iter_mut().zip(kj) {
-            *s += cj * kv;
-        }
-    }
-    let mut out = *y;
-    for (o, s) in out.iter_mut().zip(sum) {
-        *o += h * s;
-    }
-    out
-}
-
-fn rms_norm(err: &State, y0: &State, y1: &State, rtol: f64, atol: f64) -> f64 {
-    let mut sum = 0.0;
-    for ((e, a), b) in err.iter().zip(y0).zip(y1) {
-        let scale = atol + rtol * a.abs().max(b.abs());
-        let e = e / scale;
-        sum += e * e;
-    }
-    (sum / 6.0).sqrt()
-}
-
-/// Hairer, Nørsett & Wanner (1993, II.4) starting step for a 5th-order method.
-fn initial_step(drop: &Drop, y0: &State, f0: &State, opts: &FlightOptions) -> f64 {
-    let scale: Vec<f64> = y0.iter().map(|v| opts.atol + opts.rtol * v.abs()).collect();
-    let norm = |v: &State| -> f64 {
-        (v.iter()
-            .zip(&scale)
-            .map(|(a, s)| (a / s) * (a / s))
-            .sum::<f64>()
-            / 6.0)
-            .sqrt()
-    };
-    let d0 = norm(y0);
-    let d1 = norm(f0);
-    let h0 = if d0 < 1e-5 || d1 < 1e-5 {
-        1e-6
-    } else {
-        0.01 * d0 / d1
-    };
-    let y1 = axpy(y0, h0, [1.0], [f0]);
-    let f1 = drop.rhs(&y1);
-    let mut diff: State = f1;
-    for (d, b) in diff.iter_mut().zip(f0) {
-        *d -= b;
-    }
-    let d2 = norm(&diff) / h0;
-    let h1 = if d1 <= 1e-15 && d2 <= 1e-15 {
-        (h0 * 1e-3).max(1e-6)
-    } else {
-        (0.01 / d1.max(d2)).powf(1.0 / 5.0)
-    };
-    (100.0 * h0).min(h1).min(opts.max_time_s)
 }
 
 /// Integrates one drop to the ground. `shelter` = (relaxation length m,
@@ -682,8 +478,9 @@ fn integrate(
     if y[2] == 0.0 && y[5] <= 0.0 {
         return Ok(landed_at_start(&y));
     }
-    let mut f = drop.rhs(&y);
-    let mut h = initial_step(&drop, &y, &f, opts);
+    let rhs = |y: &State| drop.rhs(y);
+    let mut f = rhs(&y);
+    let mut h = initial_step(&rhs, &y, &f, opts.rtol, opts.atol, opts.max_time_s);
     let mut t = 0.0;
     let mut apex = y[2];
     let mut accepted = 0usize;
@@ -710,37 +507,13 @@ fn integrate(
                 limit: "the smallest step the integrator can take".to_string(),
             });
         }
-        let k1 = f;
-        let k2 = drop.rhs(&axpy(&y, h, [A21], [&k1]));
-        let k3 = drop.rhs(&axpy(&y, h, [A31, A32], [&k1, &k2]));
-        let k4 = drop.rhs(&axpy(&y, h, [A41, A42, A43], [&k1, &k2, &k3]));
-        let k5 = drop.rhs(&axpy(&y, h, [A51, A52, A53, A54], [&k1, &k2, &k3, &k4]));
-        let k6 = drop.rhs(&axpy(
-            &y,
-            h,
-            [A61, A62, A63, A64, A65],
-            [&k1, &k2, &k3, &k4, &k5],
-        ));
-        let y_new = axpy(&y, h, [B1, B3, B4, B5, B6], [&k1, &k3, &k4, &k5, &k6]);
-        let k7 = drop.rhs(&y_new);
-        let ks = [k1, k2, k3, k4, k5, k6, k7];
-        let mut err: State = [0.0; 6];
-        for (k, e) in ks.iter().zip(E.iter()) {
-            for (s, kv) in err.iter_mut().zip(k) {
-                *s += e * kv;
-            }
-        }
-        for s in &mut err {
-            *s *= h;
-        }
-        let err_norm = rms_norm(&err, &y, &y_new, opts.rtol, opts.atol);
-        if !err_norm.is_finite() {
-            h *= MIN_FACTOR;
-            rejected_last = true;
-            continue;
-        }
-        if err_norm > 1.0 {
-            h *= (SAFETY * err_norm.powf(-0.2)).max(MIN_FACTOR);
+        let Attempt {
+            y_new,
+            err_norm,
+            step,
+        } = attempt(&rhs, t, &y, &f, h, opts.rtol, opts.atol);
+        if !err_norm.is_finite() || err_norm > 1.0 {
+            h *= shrink_factor(err_norm);
             rejected_last = true;
             continue;
         }
@@ -750,12 +523,6 @@ fn integrate(
             h *= 0.5;
             continue;
         }
-        let step = DenseStep {
-            t0: t,
-            h,
-            y0: y,
-            k: ks,
-        };
         accepted += 1;
         if let Some(rec) = record.as_deref_mut() {
             rec.push(step);
@@ -765,12 +532,12 @@ fn integrate(
             let theta = if y_new[2] == 0.0 {
                 1.0
             } else {
-                let mut tol = Tolerances {
-                    x_tol: 1e-13,
-                    f_tol: 0.0,
+                let tol = Tolerance {
+                    x: 1e-13,
+                    f: 0.0,
                     max_iter: 200,
                 };
-                roots::find_root_brent(0.0, 1.0, |th| step.z_at(th), &mut tol).unwrap_or(1.0)
+                brent(|th| step.component_at(2, th), 0.0, 1.0, tol).unwrap_or(1.0)
             };
             let yl = step.at(theta);
             let point = Vector3::new(yl[0], yl[1], 0.0);
@@ -787,12 +554,8 @@ fn integrate(
         apex = apex.max(y_new[2]);
         t += h;
         y = y_new;
-        f = k7;
-        let factor = if err_norm == 0.0 {
-            MAX_FACTOR
-        } else {
-            (SAFETY * err_norm.powf(-0.2)).min(MAX_FACTOR)
-        };
+        f = step.k[6];
+        let factor = grow_factor(err_norm);
         h *= if rejected_last {
             factor.min(1.0)
         } else {
@@ -978,12 +741,12 @@ pub fn terminal_velocity_m_s(
             ));
         }
     }
-    let mut tol = Tolerances {
-        x_tol: 1e-12 * hi,
-        f_tol: 0.0,
+    let tol = Tolerance {
+        x: 1e-12 * hi,
+        f: 0.0,
         max_iter: 200,
     };
-    roots::find_root_brent(0.0, hi, residual, &mut tol).map_err(|e| ThrowError::InvalidInput {
+    brent(residual, 0.0, hi, tol).map_err(|e| ThrowError::InvalidInput {
         field: "terminal speed search".to_string(),
         detail: format!("failed on speeds 0 to {hi:.6e} m/s: {e}"),
     })

@@ -39,8 +39,8 @@
 
 use super::super::balance::{rad_s, SpinModel};
 use super::super::design::{Bearing, Design};
-use super::super::root::{brent, Tolerance};
 use super::super::torque::ResistingTorque;
+use crate::numeric::root::{brent, Tolerance};
 
 /// A candidate cause of a speed deviation.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
