@@ -227,7 +227,10 @@ mod tests {
         };
         let m = note_text(&n, UnitSystem::Metric);
         assert!(m.starts_with("shorter throw"), "{m}");
-        assert!(m.contains("7.5 m") && m.contains("17 % short"), "{m}");
+        assert!(
+            m.contains("7.50 m against 9.00 m") && m.contains("17 % short"),
+            "{m}"
+        );
         let us = note_text(&n, UnitSystem::Us);
         assert!(us.contains("ft") && !us.contains(" m "), "{us}");
         let w = CanNote::LessWater {

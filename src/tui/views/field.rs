@@ -126,7 +126,7 @@ fn unit_lines(app: &App) -> Vec<Line<'static>> {
         }
         match u.fit.result.as_deref() {
             Some(Ok(f)) => {
-                for l in fit_words::fit_text("fit", f, &[], app.units).lines() {
+                for l in fit_words::fit_text("the table", f, &[], app.units).lines() {
                     lines.push(Line::raw(l.to_string()));
                 }
             }
