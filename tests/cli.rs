@@ -1542,7 +1542,23 @@ fn layout_fit_recovers_the_breakup_of_a_model_made_leg() {
         "json",
     ]);
     let f = &v["measured"]["fit"];
-    assert!(f["rms_misfit_mm_h"].as_f64().unwrap() < f["rms_misfit_before_mm_h"].as_f64().unwrap());
+    let breakup_only = f["rms_misfit_mm_h"].as_f64().unwrap();
+    assert!(breakup_only < f["rms_misfit_before_mm_h"].as_f64().unwrap());
+    assert!(f["d50_m"].is_null());
+    // With d50 free as well the misfit falls further, and d50 is reported.
+    let v = json(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--catch-cans",
+        scenario("catch-cans-example.csv").to_str().unwrap(),
+        "--fit",
+        "--fit-d50",
+        "--format",
+        "json",
+    ]);
+    let f = &v["measured"]["fit"];
+    assert!(f["rms_misfit_mm_h"].as_f64().unwrap() < breakup_only, "{f}");
+    assert!(f["d50_m"].as_f64().unwrap() > 0.0 && f["d50_before_m"].as_f64().unwrap() > 0.0);
     // Text, in US units: fitted values and misfit before and after.
     let (code, out, err) = run(&[
         "layout",

@@ -37,6 +37,8 @@ pub struct LayoutArgs {
     /// Fit the spray (jet breakup) to the catch-can leg and report the
     /// layout from the fitted model.
     pub fit: bool,
+    /// With `fit`: fit the median drop size d50 as well.
+    pub fit_d50: bool,
     /// Depth to give the driest quarter each watering, mm (for the run time).
     pub target_depth_mm: Option<f64>,
     /// Width of the text rate map, characters.
@@ -105,6 +107,8 @@ struct MeasuredJson {
 struct LegFitJson {
     breakup_before: f64,
     breakup: f64,
+    d50_before_m: Option<f64>,
+    d50_m: Option<f64>,
     at_limit: bool,
     rms_misfit_before_mm_h: f64,
     rms_misfit_mm_h: f64,
@@ -203,6 +207,8 @@ fn measured_json(m: &Measured) -> MeasuredJson {
         fit: m.fit.as_ref().map(|(f, l)| LegFitJson {
             breakup_before: f.breakup_before,
             breakup: f.breakup,
+            d50_before_m: f.d50_before_m,
+            d50_m: f.d50_m,
             at_limit: f.at_limit,
             rms_misfit_before_mm_h: f.rms_before_mm_h,
             rms_misfit_mm_h: f.rms_after_mm_h,
@@ -229,7 +235,7 @@ struct Measured {
 /// with `fit`, fits the spray to the leg.
 fn rate_catch_cans(
     csv_path: &Path,
-    fit: bool,
+    fit: Option<bool>,
     design: &Design,
     head: &HeadThrow,
     layout: &Layout,
@@ -248,7 +254,7 @@ fn rate_catch_cans(
             mean_rate_mm_h: model.mean_rate_mm_h,
         },
     );
-    let fit = if fit {
+    let fit = if let Some(fit_d50) = fit {
         let leg = leg_pattern(&data).map_err(|e| CliError::Usage(format!("--fit: {e}")))?;
         let bad = |e| CliError::Usage(format!("--fit: {}: {e}", csv_path.display()));
         let f = fit_leg(
@@ -258,6 +264,7 @@ fn rate_catch_cans(
             head.spraying.omega_rad_s,
             &PatternOptions::default(),
             &leg,
+            fit_d50,
         )
         .map_err(bad)?;
         let fitted_head = HeadThrow {
@@ -465,7 +472,12 @@ pub fn run(
     });
     let measured = match &args.catch_cans {
         Some(csv_path) => Some(rate_catch_cans(
-            csv_path, args.fit, &design, &head, &layout, &result,
+            csv_path,
+            args.fit.then_some(args.fit_d50),
+            &design,
+            &head,
+            &layout,
+            &result,
         )?),
         None => None,
     };

@@ -183,8 +183,14 @@ pub fn measured_text(
 
 /// The spray fitted to the leg, and the layout from the fitted model.
 pub fn fit_text(fit: &LegFit, fitted: &LayoutResult, u: UnitSystem) -> String {
-    let mut s =
-        String::from("\nSpray fitted to the leg (jet breakup coefficient, least squares)\n");
+    let mut s = format!(
+        "\nSpray fitted to the leg ({}, least squares)\n",
+        if fit.d50_m.is_some() {
+            "jet breakup coefficient and median drop size"
+        } else {
+            "jet breakup coefficient"
+        }
+    );
     s.push_str(&format!(
         "  breakup coefficient {:.2} → {:.2}{}; misfit (rms over the cans) {} → {}\n",
         fit.breakup_before,
@@ -197,6 +203,13 @@ pub fn fit_text(fit: &LegFit, fitted: &LayoutResult, u: UnitSystem) -> String {
         rate(fit.rms_before_mm_h, u),
         rate(fit.rms_after_mm_h, u)
     ));
+    if let (Some(d), Some(d0)) = (fit.d50_m, fit.d50_before_m) {
+        s.push_str(&format!(
+            "  median drop d50 {} → {}\n",
+            format_quantity(D::SmallLength, d0, u),
+            format_quantity(D::SmallLength, d, u)
+        ));
+    }
     s.push_str(&format!(
         "  fitted wetted radius {}{}\n",
         length(fit.throw.wetted_radius_m, u),
