@@ -1387,3 +1387,196 @@ fn solve_warns_of_a_jet_above_the_stated_clearance() {
     assert_eq!(out.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&out.stderr).contains("--clearance"));
 }
+
+fn fixture(name: &str) -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+        .join("tests/fixtures")
+        .join(name)
+}
+
+#[test]
+fn layout_rates_a_grid_of_catch_cans() {
+    let file = scenario("lawn-rotor.ron");
+    let grid = scenario("catch-cans-grid-example.csv");
+    let (code, out, err) = run(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--catch-cans",
+        grid.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        out.contains("16 cans, a grid between working heads"),
+        "{out}"
+    );
+    assert!(out.contains("as caught: CU 91.1 %"), "{out}");
+    assert!(out.contains("DU low half"), "{out}");
+    // JSON: the grid's own figures, no overlap, a note on the mean rate.
+    let v = json(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--catch-cans",
+        grid.to_str().unwrap(),
+        "--format",
+        "json",
+    ]);
+    let m = &v["measured"];
+    assert_eq!(m["shape"], "grid");
+    assert_eq!(m["cans"], 16);
+    assert!(m["overlap_cu_percent"].is_null());
+    assert!(m["measured_throw_m"].is_null());
+    // Christiansen's CU over the catches (mL are in proportion to rates):
+    // mean 61.8125 mL, Σ|x − mean| = 87.75 → CU = 100 (1 − 87.75 / (16 · 61.8125))
+    // = 91.127 % (Christiansen 1942, by hand).
+    let cu = m["cu_percent"].as_f64().unwrap();
+    assert!((cu - 91.127).abs() < 0.01, "{cu}");
+    // US units: the mean rate in in/h.
+    let (code, out, _) = run(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--catch-cans",
+        grid.to_str().unwrap(),
+        "--units",
+        "us",
+    ]);
+    assert_eq!(code, 0);
+    assert!(
+        out.contains("in/h") && out.contains("rate as modelled"),
+        "{out}"
+    );
+    // --fit needs a radial leg.
+    let (code, _, err) = run(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--catch-cans",
+        grid.to_str().unwrap(),
+        "--fit",
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("--fit") && err.contains("radial leg"), "{err}");
+}
+
+#[test]
+fn layout_interprets_a_leg_with_a_shorter_throw() {
+    let file = scenario("lawn-rotor.ron");
+    let leg = scenario("catch-cans-example.csv");
+    for units in ["metric", "us"] {
+        let (code, out, err) = run(&[
+            "layout",
+            file.to_str().unwrap(),
+            "--catch-cans",
+            leg.to_str().unwrap(),
+            "--units",
+            units,
+        ]);
+        assert_eq!(code, 0, "{err}");
+        assert!(out.contains("measured against modelled"), "{out}");
+        // The example's last can at the wetting threshold (0.26 mm/h) is at
+        // 8 m (8.5 m caught 1 mL: 0.25 mm/h); the model throws 12.2 m.
+        let short = out
+            .lines()
+            .find(|l| l.contains("shorter throw"))
+            .unwrap_or_else(|| panic!("{out}"));
+        if units == "metric" {
+            assert!(short.contains("8.00 m against 12.2 m"), "{short}");
+        } else {
+            assert!(
+                short.contains("ft against") && !short.contains(" m "),
+                "{short}"
+            );
+        }
+        assert!(
+            short.contains("pressure") && short.contains("nozzle"),
+            "{short}"
+        );
+    }
+    let v = json(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--catch-cans",
+        leg.to_str().unwrap(),
+        "--format",
+        "json",
+    ]);
+    assert_eq!(v["measured"]["measured_throw_m"], 8.0);
+    assert!(v["measured"]["notes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|n| n == "shorter_throw"));
+    assert!(v["measured"]["fit"].is_null());
+}
+
+#[test]
+fn layout_fit_recovers_the_breakup_of_a_model_made_leg() {
+    let file = scenario("lawn-rotor.ron");
+    let leg = fixture("catch-cans-leg-cb7.csv");
+    let v = json(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--catch-cans",
+        leg.to_str().unwrap(),
+        "--fit",
+        "--format",
+        "json",
+    ]);
+    let f = &v["measured"]["fit"];
+    assert_eq!(f["breakup_before"], 11.0);
+    let c = f["breakup"].as_f64().unwrap();
+    // The leg was made with C_b = 7 (the fixture's header): found within 3 %.
+    assert!((c / 7.0 - 1.0).abs() < 0.03, "{c}");
+    let before = f["rms_misfit_before_mm_h"].as_f64().unwrap();
+    let after = f["rms_misfit_mm_h"].as_f64().unwrap();
+    assert!(after < 0.1 * before, "{before} → {after}");
+    assert_eq!(f["at_limit"], false);
+    // The layout from the fitted model is reported beside the design's.
+    assert!(f["cu_percent"].as_f64().unwrap() > 0.0);
+    // On the shipped example leg the fit still reduces the misfit.
+    let v = json(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--catch-cans",
+        scenario("catch-cans-example.csv").to_str().unwrap(),
+        "--fit",
+        "--format",
+        "json",
+    ]);
+    let f = &v["measured"]["fit"];
+    let breakup_only = f["rms_misfit_mm_h"].as_f64().unwrap();
+    assert!(breakup_only < f["rms_misfit_before_mm_h"].as_f64().unwrap());
+    assert!(f["d50_m"].is_null());
+    // With d50 free as well the misfit falls further, and d50 is reported.
+    let v = json(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--catch-cans",
+        scenario("catch-cans-example.csv").to_str().unwrap(),
+        "--fit",
+        "--fit-d50",
+        "--format",
+        "json",
+    ]);
+    let f = &v["measured"]["fit"];
+    assert!(f["rms_misfit_mm_h"].as_f64().unwrap() < breakup_only, "{f}");
+    assert!(f["d50_m"].as_f64().unwrap() > 0.0 && f["d50_before_m"].as_f64().unwrap() > 0.0);
+    // Text, in US units: fitted values and misfit before and after.
+    let (code, out, err) = run(&[
+        "layout",
+        file.to_str().unwrap(),
+        "--catch-cans",
+        leg.to_str().unwrap(),
+        "--fit",
+        "--units",
+        "us",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("breakup coefficient 11.00 → 7.0"), "{out}");
+    assert!(
+        out.contains("misfit (rms over the cans)") && out.contains("in/h →"),
+        "{out}"
+    );
+    assert!(out.contains("layout from the fitted model"), "{out}");
+    // --fit without catch cans is refused by the argument parser.
+    let (code, _, _) = run(&["layout", file.to_str().unwrap(), "--fit"]);
+    assert_eq!(code, 2);
+}

@@ -94,6 +94,12 @@ pub enum Command {
         /// Measured catch-can test (CSV) to rate beside the model.
         #[arg(long, value_name = "CSV")]
         catch_cans: Option<PathBuf>,
+        /// Fit the spray (jet breakup) to the catch-can leg and report the layout from the fitted model.
+        #[arg(long, requires = "catch_cans")]
+        fit: bool,
+        /// With --fit: fit the median drop size d50 as well.
+        #[arg(long, requires = "fit")]
+        fit_d50: bool,
         /// Depth the driest quarter should get each watering (e.g. 12mm, 0.5in): the run time and cycles for it.
         #[arg(long, value_name = "DEPTH")]
         target_depth: Option<String>,
@@ -397,6 +403,8 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             rows,
             intake,
             catch_cans,
+            fit,
+            fit_d50,
             target_depth,
             out: o,
         } => {
@@ -426,6 +434,8 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
                     .transpose()?
                     .map(|r| r * crate::physics::pattern::M_S_TO_MM_H),
                 catch_cans,
+                fit,
+                fit_d50,
                 target_depth_mm,
                 width: layout::terminal_width(),
                 colour: layout::colour_wanted(),

@@ -5,11 +5,13 @@
 //! model to measurements: several speed readings at different pressures
 //! ([`fit`]) and a coast-down after the water is shut off ([`coast`]), on a
 //! small Levenberg–Marquardt least squares ([`lsq`]); readings files are parsed
-//! in [`readings`]. Pure: no terminal, no files (the callers read them).
+//! in [`readings`]. A catch-can leg fits the spray's jet breakup ([`leg`], a
+//! scan and a golden-section search over one parameter). Pure: no terminal, no files (the callers read them).
 
 pub mod coast;
 pub mod compare;
 pub mod fit;
+pub mod leg;
 pub mod lsq;
 pub mod readings;
 pub mod sweep;

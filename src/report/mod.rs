@@ -3,5 +3,6 @@
 //! terminal interface both word their results here, so a finding reads the
 //! same in both.
 
+pub mod cans;
 pub mod field;
 pub mod fit;

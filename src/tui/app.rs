@@ -20,6 +20,10 @@ use ratatui::crossterm::event::{
 };
 use ratatui::layout::{Position, Rect};
 
+mod readings;
+
+pub use readings::{parse_turn_times, UnitReadings};
+
 use super::fields::{self, ChoiceHint, Field, Kind, Row};
 use super::layout::{self, Areas};
 use super::theme::Theme;
@@ -154,6 +158,8 @@ pub enum Measure {
     Flow,
     /// Wetted radius (optional).
     Throw,
+    /// Coast-down: seconds at each completed turn after the water is shut off.
+    Coast,
 }
 
 /// Text being typed.
@@ -314,6 +320,8 @@ pub struct App {
     pub base_dir: PathBuf,
     /// The field check of the design against the readings.
     pub field: Pending<Result<FieldCheck, String>>,
+    /// Readings at several pressures and the coast-down, with their fits.
+    pub unit: UnitReadings,
 }
 
 /// Where a file picker looks: `scenarios/` and the current folder.
@@ -393,6 +401,7 @@ impl App {
             comparison: Pending::default(),
             measured: Measured::default(),
             field: Pending::default(),
+            unit: UnitReadings::default(),
             base_dir: std::env::current_dir().unwrap_or_else(|_| PathBuf::from(".")),
         };
         app.selected = app.first_field_from(0, true);
@@ -479,12 +488,28 @@ impl App {
                 }
                 false
             }
+            Done::Fit { id, result } => {
+                if id == self.unit.fit.id {
+                    self.unit.fit.result = Some(result);
+                    self.unit.fit.waiting = false;
+                    return true;
+                }
+                false
+            }
+            Done::Coast { id, result } => {
+                if id == self.unit.coast.id {
+                    self.unit.coast.result = Some(result);
+                    self.unit.coast.waiting = false;
+                    return true;
+                }
+                false
+            }
         }
     }
 
     /// True while any job the screen waits for is outstanding.
     pub fn busy(&self) -> bool {
-        self.computing || self.comparison.waiting || self.field.waiting
+        self.computing || self.comparison.waiting || self.field.waiting || self.unit.waiting()
     }
 
     /// Asks for the comparison again (the design or the pins changed).
@@ -551,6 +576,8 @@ impl App {
         self.request_spray();
         self.request_comparison();
         self.request_field();
+        self.request_speed_fit();
+        self.request_coast();
         self.keep_selection_visible();
     }
 
@@ -743,6 +770,12 @@ impl App {
             't' if self.view == View::Field => {
                 self.start_input(InputTarget::Measured(Measure::Throw))
             }
+            'a' if self.view == View::Field => self.add_reading_row(),
+            'x' if self.view == View::Field => self.drop_reading_row(),
+            'd' if self.view == View::Field => {
+                self.start_input(InputTarget::Measured(Measure::Coast))
+            }
+            'k' if self.view == View::Field => self.toggle_keep_readings(),
             _ => {}
         }
     }
@@ -883,6 +916,7 @@ impl App {
                     )
                 })
                 .unwrap_or_default(),
+            InputTarget::Measured(Measure::Coast) => self.turn_times_seed(),
             InputTarget::Measured(Measure::Rotation | Measure::Flow) => String::new(),
         };
         self.mode = Mode::Typing(Input { target, text });
@@ -1013,6 +1047,10 @@ impl App {
                 Ok(())
             }
             Measure::Flow => parse_flow(t, self.units).map(|f| self.measured.flow = Some(f)),
+            Measure::Coast => match self.type_turn_times(t) {
+                Ok(()) => return,
+                Err(e) => Err(e),
+            },
             Measure::Throw if empty => {
                 self.measured.throw_m = None;
                 Ok(())
@@ -1243,10 +1281,12 @@ impl App {
                 self.dirty = false;
                 self.selected = 0;
                 self.list_offset = 0;
+                // The readings belong to the unit being checked.
+                let readings = self.readings_on_open();
                 self.resolve();
                 self.selected = self.first_field_from(0, true);
                 self.keep_selection_visible();
-                self.info(format!("opened {}", path.display()));
+                self.info(format!("opened {}{readings}", path.display()));
             }
             Err(e) => self.error(format!("cannot open: {e}")),
         }

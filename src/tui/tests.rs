@@ -747,3 +747,153 @@ fn pattern_view_says_when_heads_do_not_meet() {
     assert!(shown.contains("heads do not meet"), "{shown}");
     assert!(!shown.contains("CU -"), "{shown}");
 }
+
+/// Types a reading in the Field view: pressure, rotation, then `a` adds it.
+fn add_reading(a: &mut App, pressure: &str, rotation: &str) {
+    a.event(&key(KeyCode::Char('p')));
+    clear_input(a);
+    typed(a, pressure);
+    a.event(&key(KeyCode::Enter));
+    a.event(&key(KeyCode::Char('r')));
+    typed(a, rotation);
+    a.event(&key(KeyCode::Enter));
+    a.event(&key(KeyCode::Char('a')));
+}
+
+#[test]
+fn several_readings_are_fitted_on_the_worker() {
+    use crate::inverse::fit::at_pressure;
+    let mut a = app();
+    a.event(&key(KeyCode::Char('4')));
+    // Readings made by the design itself at three pressures: the fit must
+    // give back the design's running friction with no residual.
+    let design = a.design.clone();
+    for bar in [2.0, 2.5, 3.0] {
+        let r = solve(&at_pressure(&design, bar * 1e5));
+        let speed = op_rpm_of(&r);
+        add_reading(&mut a, &format!("{bar}bar"), &format!("{speed:.4}rpm"));
+    }
+    assert_eq!(a.unit.rows.len(), 3);
+    assert!(a.unit.fit.waiting, "the fit runs on the worker");
+    assert!(a.settle(SETTLE));
+    let f = match a.unit.fit.result.as_deref() {
+        Some(Ok(f)) => f.clone(),
+        other => panic!("{other:?}"),
+    };
+    assert_eq!(f.residuals.len(), 3);
+    assert!(f.rms_residual_rpm < 0.05, "{}", f.rms_residual_rpm);
+    let screen80 = screen(&mut a, 80, 24);
+    assert!(screen80.contains("readings table"), "{screen80}");
+    insta::assert_snapshot!("field_readings_table_80x24", screen80);
+    a.event(&key(KeyCode::PageDown));
+    insta::assert_snapshot!("field_readings_fit_160x48", screen(&mut a, 160, 48));
+    // x drops the last row and the fit is made again over two.
+    a.event(&key(KeyCode::Char('x')));
+    assert_eq!(a.unit.rows.len(), 2);
+    assert!(a.settle(SETTLE));
+    assert!(matches!(a.unit.fit.result.as_deref(), Some(Ok(f)) if f.residuals.len() == 2));
+    // a with no rotation typed is refused with what to do.
+    a.event(&key(KeyCode::Char('r')));
+    a.event(&key(KeyCode::Enter));
+    a.event(&key(KeyCode::Char('a')));
+    assert!(a
+        .message
+        .as_ref()
+        .unwrap()
+        .text
+        .contains("type the pressure"));
+    assert_eq!(a.unit.rows.len(), 2);
+}
+
+fn op_rpm_of(r: &crate::physics::balance::SpinReport) -> f64 {
+    rpm(r.operating.as_ref().expect("runs").omega_rad_s())
+}
+
+use crate::physics::balance::solve;
+
+#[test]
+fn a_coast_down_is_entered_and_fitted() {
+    use crate::inverse::coast::{fit_coast, CoastData};
+    let mut a = app();
+    a.event(&key(KeyCode::Char('4')));
+    a.event(&key(KeyCode::Char('d')));
+    typed(&mut a, "0.9, 1.9, 3.0, 4.2, 5.6, 7.3");
+    a.event(&key(KeyCode::Enter));
+    assert_eq!(a.unit.coast_times_s, vec![0.9, 1.9, 3.0, 4.2, 5.6, 7.3]);
+    assert!(a.settle(SETTLE));
+    let direct = fit_coast(
+        &a.design,
+        &CoastData::TurnTimes(a.unit.coast_times_s.clone()),
+        None,
+    )
+    .map_err(|e| e.to_string());
+    assert_eq!(a.unit.coast.result.as_deref(), Some(&direct));
+    let c = direct.expect("these times fit");
+    assert!(c.running_friction_n_m.value >= 0.0);
+    let s = screen(&mut a, 80, 24);
+    assert!(s.contains("coast-down (d)"), "{s}");
+    insta::assert_snapshot!("field_coast_80x24", s);
+    // Times that do not rise are refused; the old ones are kept.
+    a.event(&key(KeyCode::Char('d')));
+    clear_input(&mut a);
+    typed(&mut a, "1, 2, 1.5");
+    a.event(&key(KeyCode::Enter));
+    assert!(a.message.as_ref().unwrap().text.contains("not later"));
+    assert_eq!(a.unit.coast_times_s.len(), 6);
+    // Typing it empty clears it.
+    a.event(&key(KeyCode::Char('d')));
+    clear_input(&mut a);
+    a.event(&key(KeyCode::Enter));
+    assert!(a.unit.coast_times_s.is_empty());
+    assert!(a.unit.coast.result.is_none());
+}
+
+#[test]
+fn readings_are_cleared_when_another_file_opens_unless_kept() {
+    let dir = tempfile::tempdir().unwrap();
+    let other = dir.path().join("other.ron");
+    std::fs::write(
+        &other,
+        scenario::BUILTIN_EXAMPLE.replace("Lawn rotor", "Other rotor"),
+    )
+    .unwrap();
+    let mut a = app();
+    a.event(&key(KeyCode::Char('4')));
+    add_reading(&mut a, "2.5bar", "30rpm");
+    a.event(&key(KeyCode::Char('d')));
+    typed(&mut a, "1, 2.1, 3.3, 4.6");
+    a.event(&key(KeyCode::Enter));
+    assert!(a.settle(SETTLE));
+    assert!(a.measured.reading().is_some() && a.unit.any());
+    a.open_file(&other);
+    assert_eq!(a.design.name, "Other rotor");
+    assert!(a.measured.reading().is_none());
+    assert!(a.measured.pressure_pa.is_none());
+    assert!(!a.unit.any());
+    assert!(a.field.result.is_none() && a.unit.fit.result.is_none());
+    let msg = &a.message.as_ref().unwrap().text;
+    assert!(
+        msg.contains("readings cleared") && msg.contains("k in Field keeps"),
+        "{msg}"
+    );
+    assert!(a.settle(SETTLE));
+    // Kept on purpose: k, then open; the readings re-check the new design.
+    add_reading(&mut a, "2.5bar", "30rpm");
+    a.event(&key(KeyCode::Char('k')));
+    assert!(a.unit.keep);
+    assert!(a.message.as_ref().unwrap().text.contains("kept on purpose"));
+    let s = screen(&mut a, 80, 24);
+    assert!(s.contains("· kept") && s.contains("opens (k)"), "{s}");
+    a.open_file(&other);
+    assert!(a
+        .message
+        .as_ref()
+        .unwrap()
+        .text
+        .contains("readings kept on purpose"));
+    assert!(a.measured.reading().is_some());
+    assert_eq!(a.unit.rows.len(), 1);
+    assert!(a.field.waiting || a.field.result.is_some());
+    assert!(a.settle(SETTLE));
+    assert!(matches!(a.field.result.as_deref(), Some(Ok(_))));
+}

@@ -7,13 +7,16 @@
 //! only the newest is computed (an edit made while one runs makes its result
 //! stale), and the UI keeps a result only if its id is the one it asked for
 //! last. Results come back on a channel the event loop reads between frames.
-//! The same thread runs the comparison of pinned designs and field checks.
+//! The same thread runs the comparison of pinned designs, field checks, the
+//! fit over several readings and the coast-down fit.
 
 use std::sync::mpsc::{self, Receiver, Sender};
 use std::thread::JoinHandle;
 use std::time::{Duration, Instant};
 
+use crate::inverse::coast::{fit_coast, CoastData, CoastResult};
 use crate::inverse::compare::{compare_with_coverage, Comparison};
+use crate::inverse::fit::{fit, FitResult, SpeedReading};
 use crate::physics::balance::{solve, SpinReport};
 use crate::physics::coverage::{flight_env, head_throw, layout_overlap, wetted_radius_m};
 use crate::physics::design::Design;
@@ -54,6 +57,24 @@ pub enum Job {
         /// The readings.
         reading: FieldReading,
     },
+    /// The running friction and brake fitted to several readings.
+    Fit {
+        /// Which request this is.
+        id: u64,
+        /// The design.
+        design: Box<Design>,
+        /// The readings, one per pressure.
+        readings: Vec<SpeedReading>,
+    },
+    /// The dry friction and brake fitted to a coast-down.
+    Coast {
+        /// Which request this is.
+        id: u64,
+        /// The design (for its inertia and air drag).
+        design: Box<Design>,
+        /// Times of completed turns after the water was shut off, s.
+        turn_times_s: Vec<f64>,
+    },
 }
 
 impl Job {
@@ -62,6 +83,8 @@ impl Job {
             Job::Spray { .. } => 0,
             Job::Compare { .. } => 1,
             Job::Field { .. } => 2,
+            Job::Fit { .. } => 3,
+            Job::Coast { .. } => 4,
         }
     }
 }
@@ -89,6 +112,20 @@ pub enum Done {
         id: u64,
         /// The check, or why the readings cannot be used.
         result: Box<Result<FieldCheck, String>>,
+    },
+    /// Results of a [`Job::Fit`].
+    Fit {
+        /// The request's id.
+        id: u64,
+        /// The fit, or why there is none.
+        result: Box<Result<FitResult, String>>,
+    },
+    /// Results of a [`Job::Coast`].
+    Coast {
+        /// The request's id.
+        id: u64,
+        /// The fit, or why there is none.
+        result: Box<Result<CoastResult, String>>,
     },
 }
 
@@ -253,7 +290,7 @@ fn run(jobs: Receiver<Job>, done: Sender<Done>) {
             queue.push(more);
         }
         let newest = |kind: u8| queue.iter().rposition(|j| j.kind() == kind);
-        let keep: Vec<usize> = (0..3).filter_map(newest).collect();
+        let keep: Vec<usize> = (0..5).filter_map(newest).collect();
         for (i, job) in queue.into_iter().enumerate() {
             if !keep.contains(&i) {
                 continue;
@@ -274,6 +311,25 @@ fn run(jobs: Receiver<Job>, done: Sender<Done>) {
                 } => Done::Field {
                     id,
                     result: Box::new(field_check(&design, &reading)),
+                },
+                Job::Fit {
+                    id,
+                    design,
+                    readings,
+                } => Done::Fit {
+                    id,
+                    result: Box::new(fit(&design, &readings, None).map_err(|e| e.to_string())),
+                },
+                Job::Coast {
+                    id,
+                    design,
+                    turn_times_s,
+                } => Done::Coast {
+                    id,
+                    result: Box::new(
+                        fit_coast(&design, &CoastData::TurnTimes(turn_times_s), None)
+                            .map_err(|e| e.to_string()),
+                    ),
                 },
             };
             if done.send(out).is_err() {

@@ -12,6 +12,7 @@ use ratatui::Frame;
 
 use crate::physics::field::{FieldCheck, FlowReading, RotationReading};
 use crate::report::field as words;
+use crate::report::fit as fit_words;
 use crate::tui::app::App;
 use crate::units::{format_quantity, Dimension as D};
 
@@ -86,6 +87,80 @@ fn readings(app: &App) -> Vec<Line<'static>> {
         ),
         Line::raw(""),
     ]
+}
+
+/// The table of readings at several pressures, its fit, and the coast-down.
+fn unit_lines(app: &App) -> Vec<Line<'static>> {
+    let t = &app.theme;
+    let u = &app.unit;
+    let mut lines = Vec::new();
+    let keep = if u.keep {
+        " · kept when another file opens (k)"
+    } else {
+        ""
+    };
+    if u.rows.is_empty() {
+        lines.push(Line::styled(
+            format!("a adds the reading above to a table for a fit · d coast-down{keep}"),
+            t.dim(),
+        ));
+    } else {
+        lines.push(Line::styled(
+            format!("readings table (a adds, x drops the last){keep}"),
+            t.heading(),
+        ));
+        for (k, r) in u.rows.iter().enumerate() {
+            lines.push(Line::raw(format!(
+                " {:>2}  {:<12}{:>7.1} rpm  {}",
+                k + 1,
+                format_quantity(D::Pressure, r.inlet_pressure_pa, app.units),
+                r.rpm,
+                r.flow_m3_s.map_or_else(
+                    || "—".to_string(),
+                    |f| format_quantity(D::Flow, f, app.units)
+                )
+            )));
+        }
+        if u.fit.waiting {
+            lines.push(Line::styled("fitting…", t.dim()));
+        }
+        match u.fit.result.as_deref() {
+            Some(Ok(f)) => {
+                for l in fit_words::fit_text("the table", f, &[], app.units).lines() {
+                    lines.push(Line::raw(l.to_string()));
+                }
+            }
+            Some(Err(e)) => lines.push(Line::styled(format!("fit: {e}"), t.error())),
+            None => {}
+        }
+    }
+    if !u.coast_times_s.is_empty() {
+        lines.push(Line::styled(
+            format!(
+                "coast-down (d), s at each turn: {}",
+                u.coast_times_s
+                    .iter()
+                    .map(|s| format!("{s}"))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ),
+            t.heading(),
+        ));
+        if u.coast.waiting {
+            lines.push(Line::styled("fitting…", t.dim()));
+        }
+        match u.coast.result.as_deref() {
+            Some(Ok(c)) => {
+                for l in fit_words::coast_text("fit", c, app.units).lines().skip(1) {
+                    lines.push(Line::raw(l.to_string()));
+                }
+            }
+            Some(Err(e)) => lines.push(Line::styled(format!("coast-down: {e}"), t.error())),
+            None => {}
+        }
+    }
+    lines.push(Line::raw(""));
+    lines
 }
 
 fn check_lines(app: &App, c: &FieldCheck) -> Vec<Line<'static>> {
@@ -186,6 +261,7 @@ fn check_lines(app: &App, c: &FieldCheck) -> Vec<Line<'static>> {
 pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
     let t = &app.theme;
     let mut lines = readings(app);
+    lines.extend(unit_lines(app));
     match (&app.field.result, app.measured.reading()) {
         (_, None) => lines.push(Line::styled(
             "type the inlet pressure (p) and the rotation (r) to check the unit against the design",

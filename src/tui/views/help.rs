@@ -38,6 +38,18 @@ pub const KEYS: &[(&str, &str)] = &[
         "p  r  f  t",
         "Field view: type the measured pressure, rotation (40rpm, 1.5s, 10/14.2s), flow (12L/min, 5L in 30s), wetted radius",
     ),
+    (
+        "a  x",
+        "Field view: add the reading above to the table of readings / drop the last row; the table is fitted (running friction, brake)",
+    ),
+    (
+        "d",
+        "Field view: type the coast-down, seconds at each completed turn after the water is shut off (0.9, 1.9, 3.0)",
+    ),
+    (
+        "k",
+        "Field view: keep the readings when another file opens (they are cleared otherwise)",
+    ),
     ("c", "pin the current design for Compare"),
     ("x", "Compare view: drop the last pinned design"),
     ("u", "switch between metric and US units"),

@@ -275,6 +275,9 @@ fn draw_message(app: &App, frame: &mut Frame, area: Rect) {
                 InputTarget::Measured(Measure::Throw) => {
                     "measured wetted radius, e.g. 7.5m or 25ft".to_string()
                 }
+                InputTarget::Measured(Measure::Coast) => {
+                    "coast-down, s at each turn: 0.9, 1.9, 3.0".to_string()
+                }
             };
             match input.target {
                 InputTarget::Field(_) => Line::styled(format!(" {what}"), t.dim()),
@@ -339,6 +342,9 @@ pub fn keys_here(app: &App) -> Vec<(&'static str, &'static str)> {
                     ("r", "rotation"),
                     ("f", "flow"),
                     ("t", "throw"),
+                    ("a/x", "table row"),
+                    ("d", "coast-down"),
+                    ("k", "keep"),
                 ]),
                 View::Compare => k.push(("x", "unpin")),
                 View::Throw | View::Pattern => {}
