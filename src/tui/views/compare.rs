@@ -60,9 +60,17 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
     let col_w = (width.saturating_sub(label_w) / n.max(1) as u16).max(8);
     let mut widths = vec![Constraint::Length(label_w)];
     widths.extend(std::iter::repeat_n(Constraint::Length(col_w), n));
-    let mut rows = vec![Row::new(
-        std::iter::once(Cell::from("")).chain(c.names.iter().map(|s| Cell::from(s.clone()))),
-    )
+    let pins = app.pins.len();
+    let chosen = app.pin_selected.min(pins.saturating_sub(1));
+    let mut rows = vec![Row::new(std::iter::once(Cell::from("")).chain(
+        c.names.iter().enumerate().map(|(k, s)| {
+            if pins > 1 && k == chosen && k < pins {
+                Cell::from(Span::styled(format!("▸{s}"), t.selected()))
+            } else {
+                Cell::from(s.clone())
+            }
+        }),
+    ))
     .style(t.heading())];
     rows.push(Row::new(vec![Cell::from(Span::styled(
         "results",
@@ -140,11 +148,59 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
     (rows, widths)
 }
 
+/// For each design after the first, its name and the inputs in which it
+/// differs from the first, in the list's words: `radius (all arms)`,
+/// `nozzle (arm 2)`, `inlet pressure`. `arms(k)` is design `k`'s arm count.
+pub fn differences_per_design(
+    c: &Comparison,
+    arms: impl Fn(usize) -> Option<usize>,
+) -> Vec<(String, Vec<String>)> {
+    c.names
+        .iter()
+        .enumerate()
+        .skip(1)
+        .map(|(k, name)| {
+            // Inputs in first-seen order, each with the arms it differs on.
+            let mut found: Vec<(&'static str, Vec<usize>)> = Vec::new();
+            for i in &c.inputs {
+                let first = i.values.first().cloned().flatten();
+                if i.values.get(k).cloned().flatten() == first {
+                    continue;
+                }
+                let label = i.input.label;
+                let at = match found.iter().position(|(l, _)| *l == label) {
+                    Some(at) => at,
+                    None => {
+                        found.push((label, Vec::new()));
+                        found.len() - 1
+                    }
+                };
+                if let (Some(arm), Some((_, list))) = (i.arm, found.get_mut(at)) {
+                    list.push(arm);
+                }
+            }
+            let words = found
+                .into_iter()
+                .map(|(label, list)| match list.len() {
+                    0 => label.to_string(),
+                    n if arms(k) == Some(n) && n > 1 => format!("{label} (all arms)"),
+                    1 => format!("{label} (arm {})", list.first().map_or(0, |a| a + 1)),
+                    _ => {
+                        let l: Vec<String> = list.iter().map(|a| (a + 1).to_string()).collect();
+                        format!("{label} (arms {})", l.join(", "))
+                    }
+                })
+                .collect();
+            (name.clone(), words)
+        })
+        .collect()
+}
+
 /// Draws the Compare view.
 pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
     let t = &app.theme;
     let mut head = vec![Line::styled(
-        "deltas against the first pin · c pins the design as it is now · o, then c on a file, adds a saved scenario · x drops the last pin",
+        "deltas against the first pin · c pins the design as it is now · o, then c on a file, adds a saved scenario · [ ] picks a pin (▸), < > moves it, x drops it",
         t.dim(),
     )];
     if app.pins.is_empty() {
@@ -157,6 +213,27 @@ pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
     }
     if app.comparison.waiting {
         head.push(Line::styled("computing…", t.dim()));
+    }
+    if let Some(Ok(c)) = app.comparison.result.as_deref() {
+        let arms = |k: usize| {
+            app.pins
+                .get(k)
+                .map(|p| &p.design)
+                .or((k == app.pins.len()).then_some(&app.design))
+                .map(|d| d.rotor.arms.len())
+        };
+        let base = c.names.first().cloned().unwrap_or_default();
+        for (name, words) in differences_per_design(c, arms) {
+            let what = if words.is_empty() {
+                "the same inputs".to_string()
+            } else {
+                words.join(", ")
+            };
+            head.push(Line::from(vec![
+                Span::styled(format!("{name} against {base}: "), t.heading()),
+                Span::raw(what),
+            ]));
+        }
     }
     let head_h = super::wrapped_rows(&head, area.width).min(area.height);
     let [top, body] =
