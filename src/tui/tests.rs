@@ -918,3 +918,26 @@ fn compare_drops_a_middle_pin_reorders_and_says_what_each_changes() {
     assert_eq!(c.names, ["pin 1", "pin 2", "pin 3", "now"]);
     insta::assert_snapshot!("compare_three_pins_160x48", screen(&mut a, 160, 48));
 }
+
+#[test]
+fn the_starter_and_every_shipped_scenario_open_with_their_arms_together() {
+    for system in [UnitSystem::Metric, UnitSystem::Us] {
+        let sc = scenario::load_str(&scenario::starter_text(system), "starter").unwrap();
+        let a = App::from_scenario(sc, None, None).unwrap();
+        assert_eq!(a.arms, Arms::Together, "starter in {system}");
+    }
+    let mut n = 0;
+    for path in super::app::scenario_files(std::path::Path::new(env!("CARGO_MANIFEST_DIR"))) {
+        let a = App::open(Some(&path)).unwrap();
+        assert_eq!(
+            a.arms,
+            Arms::Together,
+            "{}: {:?}",
+            path.display(),
+            fields::arms_alike(&a.design)
+        );
+        assert!(a.rows.contains(&Row::AllArmsHeading));
+        n += 1;
+    }
+    assert!(n >= 4, "{n} scenarios found");
+}
