@@ -69,7 +69,7 @@ before="$(top_rpm)"
 # Down to the rotor's deflection (the 12th field; alike arms are edited as
 # one block), 5° less on every arm at once.
 for _ in $(seq 11); do t send-keys -t "$session" Down; done
-wait_for 'all [0-9]+ arms\)' 5 || fail "did not reach a whole-rotor field"
+wait_for 'all [0-9]+ arms alike' 5 || fail "the arms are not shown together"
 wait_for 'jet angle from straight back' 5 || fail "did not reach the deflection field"
 for _ in $(seq 5); do t send-keys -t "$session" Left; done
 # Split the arms into blocks of their own, and join them again (still alike).

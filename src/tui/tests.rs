@@ -847,7 +847,9 @@ fn the_finer_step_moves_deflection_a_tenth_of_a_degree() {
     // The hint line shows all three steps.
     a.message = None;
     let s = screen(&mut a, 160, 48);
-    assert!(s.contains("←/→ ±1.00° · ⇧ ±10.0° · Alt ±0.100°"), "{s}");
+    assert!(s.contains("step ±1.00° (⇧ ±10.0°, Alt ±0.100°)"), "{s}");
+    let s = screen(&mut a, 80, 24);
+    assert!(s.contains("step ±1.00° (⇧ ±10.0°, Alt ±0.100°)"), "{s}");
     assert!(a.settle(SETTLE));
 }
 
@@ -886,6 +888,9 @@ fn compare_drops_a_middle_pin_reorders_and_says_what_each_changes() {
     );
     let s = screen(&mut a, 160, 48);
     assert!(s.contains("pin 2 against pin 1: radius (all arms)"), "{s}");
+    // Alike on every arm: one row for the rotor, not one per arm.
+    assert!(s.contains("arms radius mm  "), "{s}");
+    assert!(!s.contains("arm 2 radius"), "{s}");
 
     // Pick the middle pin and drop it.
     a.event(&key(KeyCode::Char(']')));

@@ -130,8 +130,16 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
             "  (none: the inputs are the same)",
         )]));
     }
-    for i in &c.inputs {
-        let label = input_label(i, app.units);
+    for (i, all) in merged_inputs(c, arm_counts(app)) {
+        let label = if all {
+            let on_arm_one = input_label(i, app.units);
+            format!(
+                "arms {}",
+                on_arm_one.strip_prefix("arm 1 ").unwrap_or(&on_arm_one)
+            )
+        } else {
+            input_label(i, app.units)
+        };
         let first = i.values.first().cloned().flatten();
         let mut cells = vec![Cell::from(label)];
         for (k, v) in i.values.iter().enumerate() {
@@ -146,6 +154,49 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
         rows.push(Row::new(cells));
     }
     (rows, widths)
+}
+
+/// The arm count of each compared design (the pins, then the design now).
+fn arm_counts(app: &App) -> impl Fn(usize) -> Option<usize> + '_ {
+    |k: usize| {
+        app.pins
+            .get(k)
+            .map(|p| &p.design)
+            .or((k == app.pins.len()).then_some(&app.design))
+            .map(|d| d.rotor.arms.len())
+    }
+}
+
+/// The differing inputs as the table lists them: a per-arm input that
+/// differs alike on every arm of designs with the same arm count is one row
+/// (`true`: all arms, labelled `arms radius mm`), not a row per arm.
+fn merged_inputs(
+    c: &Comparison,
+    arms: impl Fn(usize) -> Option<usize>,
+) -> Vec<(&InputDifference, bool)> {
+    let columns = c.names.len();
+    let mut out = Vec::new();
+    let mut merged: Vec<&'static str> = Vec::new();
+    for i in &c.inputs {
+        if i.arm.is_some() && merged.contains(&i.input.path) {
+            continue;
+        }
+        if i.arm == Some(0) {
+            let group: Vec<&InputDifference> =
+                c.inputs.iter().filter(|j| j.input == i.input).collect();
+            let m = group.len();
+            let every_arm = group.iter().enumerate().all(|(k, j)| j.arm == Some(k));
+            let same_count = (0..columns).all(|k| arms(k) == Some(m));
+            let alike = group.iter().all(|j| j.values == i.values);
+            if m > 1 && every_arm && same_count && alike {
+                merged.push(i.input.path);
+                out.push((i, true));
+                continue;
+            }
+        }
+        out.push((i, false));
+    }
+    out
 }
 
 /// For each design after the first, its name and the inputs in which it
@@ -215,13 +266,7 @@ pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
         head.push(Line::styled("computing…", t.dim()));
     }
     if let Some(Ok(c)) = app.comparison.result.as_deref() {
-        let arms = |k: usize| {
-            app.pins
-                .get(k)
-                .map(|p| &p.design)
-                .or((k == app.pins.len()).then_some(&app.design))
-                .map(|d| d.rotor.arms.len())
-        };
+        let arms = arm_counts(app);
         let base = c.names.first().cloned().unwrap_or_default();
         for (name, words) in differences_per_design(c, arms) {
             let what = if words.is_empty() {

@@ -246,8 +246,9 @@ fn field_hint(app: &App, f: Field) -> String {
     match f.kind() {
         Kind::Choice => format!("{what}{arm} · ←/→ change"),
         Kind::Text => format!("{what} · Enter to type"),
+        // The steps first, so a narrow screen still shows them.
         Kind::Number | Kind::OptionalNumber => format!(
-            "{what}{arm} · ←/→ ±{} · ⇧ ±{} · Alt ±{}{}",
+            "step ±{} (⇧ ±{}, Alt ±{}) · {what}{arm}{}",
             step(Stride::Fine),
             step(Stride::Coarse),
             step(Stride::Finer),
