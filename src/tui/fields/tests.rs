@@ -263,6 +263,17 @@ fn the_whole_rotor_block_edits_every_arm_and_keeps_them_spread() {
     // One arm changed: they are no longer alike, and it says how.
     assert!(Field::on_arm(&NOZZLE_CD, 1).set_number(&mut e, Some(0.9)));
     assert_eq!(arms_alike(&e), Err("the arms differ in Cd".to_string()));
+    // Seven arms written to six figures are still evenly spread.
+    let mut g = d.clone();
+    g.rotor.arms = vec![g.rotor.arms[0]; 7];
+    respace(&mut g);
+    for a in &mut g.rotor.arms {
+        let deg: f64 = format!("{:.5e}", a.azimuth_rad.to_degrees())
+            .parse()
+            .unwrap();
+        a.azimuth_rad = deg.to_radians();
+    }
+    assert_eq!(arms_alike(&g), Ok(()));
     let mut f = d.clone();
     f.rotor.arms[2].azimuth_rad += 0.1;
     assert!(arms_alike(&f).unwrap_err().contains("evenly spread"));
