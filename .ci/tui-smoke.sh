@@ -1,8 +1,8 @@
 #!/usr/bin/env bash
 # Smoke test of the terminal interface on a real terminal (tmux): open the
-# built-in example, turn arm 1's nozzle further back and copy it to every
-# arm, see the speed change, quit, and check the terminal was put back
-# (main screen, no mouse capture, cursor shown, cooked mode).
+# built-in example, turn every nozzle further back at once, split the arms
+# and join them again, see the speed change, quit, and check the terminal was
+# put back (main screen, no mouse capture, cursor shown, cooked mode).
 #
 # Runs on a private tmux server (its own socket) that it always removes.
 # Every wait has a timeout. Needs: tmux, cargo.
@@ -66,13 +66,17 @@ wait_for 'CU [0-9]' 60 || fail "throw and CU never arrived"
 before="$(top_rpm)"
 [[ -n "$before" ]] || fail "no rpm on the top line"
 
-# Down to arm 1's deflection (the 12th field), 5° further back, then to all arms.
+# Down to the rotor's deflection (the 12th field; alike arms are edited as
+# one block), 5° less on every arm at once.
 for _ in $(seq 11); do t send-keys -t "$session" Down; done
-wait_for 'deflection +15\.0°' 5 || fail "did not reach the deflection field"
+wait_for 'all [0-9]+ arms alike' 5 || fail "the arms are not shown together"
+wait_for 'jet angle from straight back' 5 || fail "did not reach the deflection field"
 for _ in $(seq 5); do t send-keys -t "$session" Left; done
-t send-keys -t "$session" '*'
-wait_for 'copied to every arm' 10 || fail "nozzle was not copied to every arm"
-wait_for 'deflection +10\.0°' 5 || fail "deflection did not move to 10°"
+# Split the arms into blocks of their own, and join them again (still alike).
+t send-keys -t "$session" a
+wait_for 'arms apart' 10 || fail "arms did not split"
+t send-keys -t "$session" a
+wait_for 'arms together' 10 || fail "arms did not join again"
 after="$(top_rpm)"
 [[ -n "$after" && "$after" != "$before" ]] || fail "rpm did not change ($before → $after)"
 wait_for 'unsaved' 5 || fail "no unsaved marker after an edit"

@@ -24,7 +24,7 @@ mod readings;
 
 pub use readings::{parse_turn_times, UnitReadings};
 
-use super::fields::{self, ChoiceHint, Field, Kind, Row};
+use super::fields::{self, Arms, ChoiceHint, Field, Kind, Row, Stride};
 use super::layout::{self, Areas};
 use super::theme::Theme;
 use super::worker::{Done, Job, SprayResult, Worker};
@@ -32,7 +32,7 @@ use crate::catalogue;
 use crate::inverse::compare::Comparison;
 use crate::physics::balance::{solve, table_top_speed, SpinModel, SpinReport, TableRow};
 use crate::physics::checks::{cautions, Caution, Rules};
-use crate::physics::design::{Bearing, Design, Washer, WasherRule};
+use crate::physics::design::{Arm, Bearing, Design, Washer, WasherRule};
 use crate::physics::field::{FieldCheck, FieldReading, FlowReading, RotationReading, ThrowReading};
 use crate::scenario::{self, Scenario, ScenarioError};
 use crate::units::{self, Dimension as D, UnitSystem};
@@ -292,6 +292,8 @@ pub struct App {
     pub units: UnitSystem,
     /// The view on the right.
     pub view: View,
+    /// Whether the list edits the arms together (one block) or apart.
+    pub arms: Arms,
     /// The list's rows.
     pub rows: Vec<Row>,
     /// Index of the selected row (always a field).
@@ -312,6 +314,8 @@ pub struct App {
     pub quit: bool,
     /// Designs pinned for comparison.
     pub pins: Vec<Pinned>,
+    /// The pin the Compare keys act on (dropped, moved).
+    pub pin_selected: usize,
     /// The comparison of the design with the pinned ones.
     pub comparison: Pending<Result<Comparison, String>>,
     /// Field-check readings.
@@ -371,7 +375,8 @@ impl App {
         let design = sc.to_design()?;
         let report = solve(&design);
         let table = balance_table(&design, &report, TABLE_POINTS);
-        let rows = fields::rows(&design);
+        let arms = arms_shown(&design);
+        let rows = fields::rows(&design, arms);
         let mut app = App {
             design,
             notes: sc.notes.clone(),
@@ -388,6 +393,7 @@ impl App {
             worker: Worker::start(),
             units: UnitSystem::Metric,
             view: View::Balance,
+            arms,
             rows,
             selected: 0,
             list_offset: 0,
@@ -398,6 +404,7 @@ impl App {
             theme: Theme::from_env(),
             quit: false,
             pins: Vec::new(),
+            pin_selected: 0,
             comparison: Pending::default(),
             measured: Measured::default(),
             field: Pending::default(),
@@ -565,19 +572,25 @@ impl App {
     fn resolve(&mut self) {
         self.report = solve(&self.design);
         self.table = balance_table(&self.design, &self.report, TABLE_POINTS);
-        let keep = self.selected_field();
-        self.rows = fields::rows(&self.design);
+        self.refresh_rows();
+        self.request_spray();
+        self.request_comparison();
+        self.request_field();
+        self.request_speed_fit();
+        self.request_coast();
+    }
+
+    /// Rebuilds the list (the design's choices or the arms' showing
+    /// changed), keeping the selected input selected.
+    fn refresh_rows(&mut self) {
+        let keep = self.selected_field().map(|f| f.shown_as(self.arms));
+        self.rows = fields::rows(&self.design, self.arms);
         self.selected = keep
             .and_then(|f| self.rows.iter().position(|r| *r == Row::Field(f)))
             .unwrap_or_else(|| {
                 let i = self.selected.min(self.rows.len().saturating_sub(1));
                 self.first_field_from(i, false)
             });
-        self.request_spray();
-        self.request_comparison();
-        self.request_field();
-        self.request_speed_fit();
-        self.request_coast();
         self.keep_selection_visible();
     }
 
@@ -726,8 +739,19 @@ impl App {
                 self.selected = self.first_field_from(self.rows.len().saturating_sub(1), false);
                 self.keep_selection_visible();
             }
-            KeyCode::Left => self.nudge(false, shift),
-            KeyCode::Right => self.nudge(true, shift),
+            KeyCode::Left | KeyCode::Right => {
+                let finer = k
+                    .modifiers
+                    .intersects(KeyModifiers::ALT | KeyModifiers::CONTROL);
+                let stride = if finer {
+                    Stride::Finer
+                } else if shift {
+                    Stride::Coarse
+                } else {
+                    Stride::Fine
+                };
+                self.nudge(k.code == KeyCode::Right, stride);
+            }
             KeyCode::Enter => self.start_typing(),
             KeyCode::Tab => self.set_view((self.view.index() + 1) % View::ALL.len()),
             KeyCode::BackTab => {
@@ -756,8 +780,11 @@ impl App {
             'q' => self.ask_quit(),
             '+' => self.add_arm(),
             '-' => self.remove_arm(),
-            '*' => self.copy_nozzle_to_all(),
+            '*' => self.copy_arm_to_all(),
+            'a' => self.toggle_arms(),
             'x' if self.view == View::Compare => self.unpin(),
+            '[' | ']' if self.view == View::Compare => self.select_pin(c == ']'),
+            '<' | '>' if self.view == View::Compare => self.move_pin(c == '>'),
             'p' if self.view == View::Field => {
                 self.start_input(InputTarget::Measured(Measure::Pressure))
             }
@@ -770,7 +797,7 @@ impl App {
             't' if self.view == View::Field => {
                 self.start_input(InputTarget::Measured(Measure::Throw))
             }
-            'a' if self.view == View::Field => self.add_reading_row(),
+            'n' if self.view == View::Field => self.add_reading_row(),
             'x' if self.view == View::Field => self.drop_reading_row(),
             'd' if self.view == View::Field => {
                 self.start_input(InputTarget::Measured(Measure::Coast))
@@ -834,7 +861,7 @@ impl App {
         }
     }
 
-    fn nudge(&mut self, forward: bool, coarse: bool) {
+    fn nudge(&mut self, forward: bool, stride: Stride) {
         let Some(f) = self.selected_field() else {
             return;
         };
@@ -849,7 +876,7 @@ impl App {
             Kind::Number | Kind::OptionalNumber => {
                 let now = f.number(&self.design).or_else(|| self.auto_value(f));
                 let Some(v) = now else { return };
-                let next = fields::nudged(f, v, self.units, forward, coarse);
+                let next = fields::nudged(f, v, self.units, forward, stride);
                 if f.set_number(&mut cand, Some(next)) {
                     self.apply(cand);
                 }
@@ -882,7 +909,7 @@ impl App {
             return;
         };
         if f.kind() == Kind::Choice {
-            self.nudge(true, false);
+            self.nudge(true, Stride::Fine);
             return;
         }
         self.start_input(InputTarget::Field(f));
@@ -1083,8 +1110,16 @@ impl App {
         }
         let mut cand = self.design.clone();
         cand.rotor.arms.insert(k + 1, arm);
-        respace(&mut cand);
-        if self.apply(cand) {
+        fields::respace(&mut cand);
+        let n = cand.rotor.arms.len();
+        if !self.apply(cand) {
+            return;
+        }
+        if self.arms == Arms::Together {
+            self.info(format!(
+                "added an arm like the others: {n} arms, evenly spread"
+            ));
+        } else {
             self.select(Field::on_arm(&catalogue::NOZZLE_DIAMETER, k + 1));
             self.info(format!(
                 "added arm {} (a copy of arm {}); arms respaced evenly",
@@ -1095,9 +1130,20 @@ impl App {
     }
 
     fn remove_arm(&mut self) {
-        let Some(k) = self.selected_field().and_then(Field::arm) else {
-            self.error("select a field of the arm to remove");
-            return;
+        let together = self.arms == Arms::Together;
+        let k = match self.selected_field() {
+            // With the arms together the last one goes (they are alike).
+            Some(f) if together && f.input.per_arm() => {
+                self.design.rotor.arms.len().saturating_sub(1)
+            }
+            Some(f) => match f.arm() {
+                Some(k) => k,
+                None => {
+                    self.error("select a field of the arm to remove");
+                    return;
+                }
+            },
+            None => return,
         };
         if self.design.rotor.arms.len() <= 1 {
             self.error("a rotor needs at least one arm");
@@ -1105,28 +1151,72 @@ impl App {
         }
         let mut cand = self.design.clone();
         cand.rotor.arms.remove(k);
-        respace(&mut cand);
+        fields::respace(&mut cand);
         let n = cand.rotor.arms.len();
         if self.apply(cand) {
-            self.select(Field::on_arm(&catalogue::NOZZLE_DIAMETER, k.min(n - 1)));
-            self.info(format!("removed arm {}; arms respaced evenly", k + 1));
+            if together {
+                self.info(format!("removed an arm: {n} left, evenly spread"));
+            } else {
+                self.select(Field::on_arm(&catalogue::NOZZLE_DIAMETER, k.min(n - 1)));
+                self.info(format!("removed arm {}; arms respaced evenly", k + 1));
+            }
         }
     }
 
-    fn copy_nozzle_to_all(&mut self) {
+    /// Makes every arm a copy of the selected one: radius, height, rise,
+    /// tube and nozzle; each arm keeps its azimuth.
+    fn copy_arm_to_all(&mut self) {
+        if self.arms == Arms::Together {
+            self.info("the arms are edited together and alike already (a splits them)");
+            return;
+        }
         let Some(k) = self.selected_field().and_then(Field::arm) else {
-            self.error("select a field of the arm whose nozzle to copy");
+            self.error("select a field of the arm to copy to every arm");
             return;
         };
-        let Some(nozzle) = self.design.rotor.arms.get(k).map(|a| a.nozzle) else {
+        let Some(from) = self.design.rotor.arms.get(k).copied() else {
             return;
         };
         let mut cand = self.design.clone();
         for a in &mut cand.rotor.arms {
-            a.nozzle = nozzle;
+            *a = Arm {
+                azimuth_rad: a.azimuth_rad,
+                ..from
+            };
         }
         if self.apply(cand) {
-            self.info(format!("arm {}'s nozzle copied to every arm", k + 1));
+            let join = if fields::arms_alike(&self.design).is_ok() {
+                "; a joins them into one block"
+            } else {
+                ""
+            };
+            self.info(format!(
+                "arm {} copied to every arm (radius, height, rise, tube, nozzle; azimuths kept){join}",
+                k + 1
+            ));
+        }
+    }
+
+    /// Splits the arms into blocks of their own, or joins them into one
+    /// block when they are alike (refused, saying what differs, when not).
+    fn toggle_arms(&mut self) {
+        match self.arms {
+            Arms::Together => {
+                self.arms = Arms::Apart;
+                self.refresh_rows();
+                self.info("arms apart: each arm is edited on its own; a joins them when alike");
+            }
+            Arms::Apart => match fields::arms_alike(&self.design) {
+                Ok(()) => {
+                    self.arms = Arms::Together;
+                    self.refresh_rows();
+                    let n = self.design.rotor.arms.len();
+                    self.info(format!("arms together: one block edits all {n} arms"));
+                }
+                Err(why) => self.error(format!(
+                    "arms not joined: {why}; * copies the selected arm to every arm"
+                )),
+            },
         }
     }
 
@@ -1279,6 +1369,7 @@ impl App {
                 self.source_text = Some(text.clone());
                 self.disk_text = Some(text);
                 self.dirty = false;
+                self.arms = arms_shown(&self.design);
                 self.selected = 0;
                 self.list_offset = 0;
                 // The readings belong to the unit being checked.
@@ -1318,7 +1409,11 @@ impl App {
     }
 
     fn pin_current(&mut self) {
-        let label = format!("pin {}", self.pins.len() + 1);
+        // The first free number: labels stay apart after a pin is dropped.
+        let label = (1..)
+            .map(|k| format!("pin {k}"))
+            .find(|l| self.pins.iter().all(|p| p.label != *l))
+            .unwrap_or_default();
         self.pin(label, self.design.clone());
     }
 
@@ -1335,11 +1430,55 @@ impl App {
         }
     }
 
+    /// Drops the selected pin.
     fn unpin(&mut self) {
-        if self.pins.pop().is_some() {
-            self.request_comparison();
-            self.info("dropped the last pinned design");
+        if self.pins.is_empty() {
+            self.error("nothing is pinned");
+            return;
         }
+        let k = self.pin_selected.min(self.pins.len() - 1);
+        let gone = self.pins.remove(k);
+        self.pin_selected = k.min(self.pins.len().saturating_sub(1));
+        self.request_comparison();
+        self.info(format!("dropped {}", gone.label));
+    }
+
+    /// Selects the next (or previous) pin for the Compare keys.
+    fn select_pin(&mut self, next: bool) {
+        let n = self.pins.len();
+        if n == 0 {
+            self.error("nothing is pinned");
+            return;
+        }
+        let k = self.pin_selected.min(n - 1);
+        self.pin_selected = if next { (k + 1) % n } else { (k + n - 1) % n };
+        let label = self.pins.get(self.pin_selected).map(|p| p.label.clone());
+        self.info(format!("selected {}", label.unwrap_or_default()));
+    }
+
+    /// Moves the selected pin one column right (`later`) or left; the first
+    /// pin is the one the deltas are taken against.
+    fn move_pin(&mut self, later: bool) {
+        let n = self.pins.len();
+        if n < 2 {
+            self.error("pin two designs or more to reorder them");
+            return;
+        }
+        let k = self.pin_selected.min(n - 1);
+        let to = if later { k + 1 } else { k.wrapping_sub(1) };
+        if to >= n {
+            self.info("that pin is at the end already");
+            return;
+        }
+        self.pins.swap(k, to);
+        self.pin_selected = to;
+        self.request_comparison();
+        let label = self
+            .pins
+            .get(to)
+            .map(|p| p.label.clone())
+            .unwrap_or_default();
+        self.info(format!("moved {label} to column {}", to + 1));
     }
 
     fn mouse(&mut self, m: &MouseEvent) {
@@ -1401,13 +1540,12 @@ impl App {
     }
 }
 
-/// Evenly spaced azimuths, the first arm's kept.
-fn respace(d: &mut Design) {
-    let n = d.rotor.arms.len();
-    let first = d.rotor.arms.first().map_or(0.0, |a| a.azimuth_rad);
-    for (k, a) in d.rotor.arms.iter_mut().enumerate() {
-        let az = first + 2.0 * std::f64::consts::PI * k as f64 / n as f64;
-        a.azimuth_rad = az.rem_euclid(2.0 * std::f64::consts::PI);
+/// How the list first shows a design's arms: together when they are alike.
+fn arms_shown(design: &Design) -> Arms {
+    if fields::arms_alike(design).is_ok() {
+        Arms::Together
+    } else {
+        Arms::Apart
     }
 }
 

@@ -10,7 +10,7 @@ use ratatui::crossterm::event::{
 use ratatui::Terminal;
 
 use super::app::{App, Confirm, Mode, View};
-use super::fields::{Field, Row};
+use super::fields::{self, Arms, Field, Row};
 use super::theme::Theme;
 use super::{draw, layout};
 use crate::catalogue as cat;
@@ -131,12 +131,11 @@ fn snapshot_of_a_windy_pattern_and_a_stalled_rotor() {
 
     // Nozzles turned past radial (95°) on every arm: they brake, it cannot start.
     let mut b = app();
-    select(&mut b, Field::on_arm(&cat::DEFLECTION, 0));
+    select(&mut b, Field::of(&cat::DEFLECTION));
     b.event(&key(KeyCode::Enter));
     clear_input(&mut b);
     typed(&mut b, "95deg");
     b.event(&key(KeyCode::Enter));
-    b.event(&key(KeyCode::Char('*')));
     assert!(b.report.operating.is_none(), "95° deflection stalls it");
     assert!(b.settle(SETTLE));
     insta::assert_snapshot!("balance_stalled_80x24", screen(&mut b, 80, 24));
@@ -149,8 +148,8 @@ fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
     a.event(&Event::Resize(80, 24));
     let before = op_rpm(&a);
 
-    // Select arm 1's deflection and nudge it down 1° twice, then coarse down 10°.
-    let defl = Field::on_arm(&cat::DEFLECTION, 0);
+    // Select the rotor's deflection and nudge it down 1° twice, then coarse down 10°.
+    let defl = Field::of(&cat::DEFLECTION);
     select(&mut a, defl);
     let d0 = a.design.rotor.arms[0].nozzle.deflection_rad.to_degrees();
     a.event(&key(KeyCode::Left));
@@ -183,7 +182,7 @@ fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
 
     // A refused value says why and keeps the old one.
     let kept = a.design.clone();
-    select(&mut a, Field::on_arm(&cat::NOZZLE_DIAMETER, 1));
+    select(&mut a, Field::of(&cat::NOZZLE_DIAMETER));
     a.event(&key(KeyCode::Enter));
     clear_input(&mut a);
     typed(&mut a, "-1mm");
@@ -201,13 +200,15 @@ fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
     assert_eq!(a.design, kept, "a pressure is not a nozzle size");
     assert!(a.message.as_ref().unwrap().text.contains("length"));
 
-    // A 6.5 in arm radius on arm 3, typed in inches.
+    // A 6.5 in arm radius on arm 3 alone, typed in inches.
+    a.event(&key(KeyCode::Char('a')));
     select(&mut a, Field::on_arm(&cat::RADIUS, 2));
     a.event(&key(KeyCode::Enter));
     clear_input(&mut a);
     typed(&mut a, "6.5in");
     a.event(&key(KeyCode::Enter));
     assert!((a.design.rotor.arms[2].radius_m - 0.1651).abs() < 1e-9);
+    assert!((a.design.rotor.arms[1].radius_m - 0.1651).abs() > 1e-3);
 
     // Views switch with Tab and digits.
     a.event(&key(KeyCode::Tab));
@@ -308,6 +309,7 @@ fn quitting_with_unsaved_changes_asks_and_can_stay() {
 #[test]
 fn arms_are_added_removed_and_share_a_nozzle() {
     let mut a = app();
+    a.event(&key(KeyCode::Char('a')));
     select(&mut a, Field::on_arm(&cat::NOZZLE_DIAMETER, 1));
     a.event(&key(KeyCode::Right));
     let big = a.design.rotor.arms[1].nozzle.diameter_m;
@@ -468,12 +470,11 @@ fn compare_view_shows_what_an_edit_changed() {
     a.event(&key(KeyCode::Char('5')));
     a.event(&key(KeyCode::Char('c')));
     assert_eq!(a.pins.len(), 1);
-    select(&mut a, Field::on_arm(&cat::DEFLECTION, 0));
+    select(&mut a, Field::of(&cat::DEFLECTION));
     a.event(&key(KeyCode::Enter));
     clear_input(&mut a);
     typed(&mut a, "5deg");
     a.event(&key(KeyCode::Enter));
-    a.event(&key(KeyCode::Char('*')));
     assert!(a.settle(SETTLE));
     let c = match a.comparison.result.as_deref() {
         Some(Ok(c)) => c.clone(),
@@ -656,7 +657,7 @@ fn the_picker_opens_a_scenario_or_adds_it_to_compare() {
 #[test]
 fn tiny_and_odd_terminal_sizes_draw_without_panicking() {
     let mut a = app();
-    select(&mut a, Field::on_arm(&cat::DEFLECTION, 0));
+    select(&mut a, Field::of(&cat::DEFLECTION));
     a.event(&key(KeyCode::Char('c')));
     assert!(a.settle(SETTLE));
     for (w, h) in [
@@ -757,7 +758,7 @@ fn add_reading(a: &mut App, pressure: &str, rotation: &str) {
     a.event(&key(KeyCode::Char('r')));
     typed(a, rotation);
     a.event(&key(KeyCode::Enter));
-    a.event(&key(KeyCode::Char('a')));
+    a.event(&key(KeyCode::Char('n')));
 }
 
 #[test]
@@ -792,10 +793,10 @@ fn several_readings_are_fitted_on_the_worker() {
     assert_eq!(a.unit.rows.len(), 2);
     assert!(a.settle(SETTLE));
     assert!(matches!(a.unit.fit.result.as_deref(), Some(Ok(f)) if f.residuals.len() == 2));
-    // a with no rotation typed is refused with what to do.
+    // n with no rotation typed is refused with what to do.
     a.event(&key(KeyCode::Char('r')));
     a.event(&key(KeyCode::Enter));
-    a.event(&key(KeyCode::Char('a')));
+    a.event(&key(KeyCode::Char('n')));
     assert!(a
         .message
         .as_ref()
@@ -896,4 +897,217 @@ fn readings_are_cleared_when_another_file_opens_unless_kept() {
     assert!(a.field.waiting || a.field.result.is_some());
     assert!(a.settle(SETTLE));
     assert!(matches!(a.field.result.as_deref(), Some(Ok(_))));
+}
+
+fn alt(code: KeyCode) -> Event {
+    Event::Key(KeyEvent::new(code, KeyModifiers::ALT))
+}
+
+fn radii(app: &App) -> Vec<f64> {
+    app.design.rotor.arms.iter().map(|a| a.radius_m).collect()
+}
+
+#[test]
+fn one_edit_of_the_whole_rotor_changes_all_three_arms() {
+    let mut a = app();
+    assert_eq!(a.design.rotor.arms.len(), 3);
+    assert_eq!(
+        a.arms,
+        Arms::Together,
+        "the example opens with its arms together"
+    );
+    assert!(a.rows.contains(&Row::AllArmsHeading));
+    assert!(!a.rows.iter().any(|r| matches!(r, Row::ArmHeading(_))));
+    select(&mut a, Field::of(&cat::RADIUS));
+    a.event(&key(KeyCode::Enter));
+    clear_input(&mut a);
+    typed(&mut a, "250mm");
+    a.event(&key(KeyCode::Enter));
+    assert_eq!(radii(&a), vec![0.25; 3], "{:?}", a.message);
+    // One nudge moves every arm too, and the azimuths stay evenly spread.
+    a.event(&key(KeyCode::Right));
+    assert_eq!(radii(&a), vec![0.255; 3]);
+    let az: Vec<f64> = a
+        .design
+        .rotor
+        .arms
+        .iter()
+        .map(|arm| arm.azimuth_rad.to_degrees())
+        .collect();
+    for (k, z) in az.iter().enumerate() {
+        assert!((z - 120.0 * k as f64).abs() < 1e-9, "{az:?}");
+    }
+    // Adding an arm keeps them together and alike, four evenly spread.
+    a.event(&key(KeyCode::Char('+')));
+    assert_eq!(a.design.rotor.arms.len(), 4);
+    assert_eq!(fields::arms_alike(&a.design), Ok(()));
+    a.message = None;
+    let s = screen(&mut a, 160, 48);
+    assert!(s.contains("all 4 arms alike"), "{s}");
+    assert!(s.contains("(all 4 arms)"), "{s}");
+    assert!(a.settle(SETTLE));
+}
+
+#[test]
+fn arms_split_for_one_arm_and_join_back_only_when_alike() {
+    let mut a = app();
+    a.event(&key(KeyCode::Char('a')));
+    assert_eq!(a.arms, Arms::Apart);
+    assert!(a.rows.contains(&Row::ArmHeading(2)));
+    select(&mut a, Field::on_arm(&cat::RADIUS, 1));
+    a.event(&key(KeyCode::Enter));
+    clear_input(&mut a);
+    typed(&mut a, "300mm");
+    a.event(&key(KeyCode::Enter));
+    let r = radii(&a);
+    assert_eq!(r[1], 0.3);
+    assert!(r[0] != 0.3 && r[2] != 0.3, "{r:?}");
+    // The arms differ: joining is refused and says why; the join is not
+    // offered on the key line.
+    assert!(!super::views::keys_here(&a).contains(&("a", "join arms")));
+    a.event(&key(KeyCode::Char('a')));
+    assert_eq!(a.arms, Arms::Apart);
+    let msg = a.message.clone().unwrap().text;
+    assert!(
+        msg.contains("not joined") && msg.contains("radius"),
+        "{msg}"
+    );
+    // `*` makes every arm a copy of arm 2 (azimuths kept); then they join.
+    let az: Vec<f64> = a.design.rotor.arms.iter().map(|x| x.azimuth_rad).collect();
+    a.event(&key(KeyCode::Char('*')));
+    assert_eq!(radii(&a), vec![0.3; 3]);
+    let az2: Vec<f64> = a.design.rotor.arms.iter().map(|x| x.azimuth_rad).collect();
+    assert_eq!(az, az2);
+    let msg = a.message.clone().unwrap().text;
+    assert!(msg.contains("radius, height, rise, tube, nozzle"), "{msg}");
+    assert!(super::views::keys_here(&a).contains(&("a", "join arms")));
+    a.event(&key(KeyCode::Char('a')));
+    assert_eq!(a.arms, Arms::Together);
+    // The selection stays on the radius, now the whole rotor's.
+    assert_eq!(a.selected_field(), Some(Field::of(&cat::RADIUS)));
+    assert!(a.settle(SETTLE));
+}
+
+#[test]
+fn the_finer_step_moves_deflection_a_tenth_of_a_degree() {
+    let mut a = app();
+    select(&mut a, Field::of(&cat::DEFLECTION));
+    let d0 = a.design.rotor.arms[0].nozzle.deflection_rad.to_degrees();
+    let r0 = op_rpm(&a);
+    a.event(&alt(KeyCode::Right));
+    let d1 = a.design.rotor.arms[0].nozzle.deflection_rad.to_degrees();
+    assert!(d1 > d0 && d1 - d0 <= 0.1 + 1e-9, "{d0} → {d1}");
+    assert!(a
+        .design
+        .rotor
+        .arms
+        .iter()
+        .all(|x| x.nozzle.deflection_rad.to_degrees() == d1));
+    let r1 = op_rpm(&a);
+    // The fine step moves it ten times as far (and the speed more).
+    a.event(&key(KeyCode::Right));
+    let d2 = a.design.rotor.arms[0].nozzle.deflection_rad.to_degrees();
+    assert!((d2 - d1 - 1.0).abs() <= 0.1 + 1e-9, "{d1} → {d2}");
+    assert!((r1 - r0).abs() < (op_rpm(&a) - r1).abs());
+    // The hint line shows all three steps.
+    a.message = None;
+    let s = screen(&mut a, 160, 48);
+    assert!(s.contains("step ±1.00° (⇧ ±10.0°, Alt ±0.100°)"), "{s}");
+    let s = screen(&mut a, 80, 24);
+    assert!(s.contains("step ±1.00° (⇧ ±10.0°, Alt ±0.100°)"), "{s}");
+    assert!(a.settle(SETTLE));
+}
+
+#[test]
+fn compare_drops_a_middle_pin_reorders_and_says_what_each_changes() {
+    let mut a = app();
+    a.event(&key(KeyCode::Char('5')));
+    a.event(&key(KeyCode::Char('c')));
+    select(&mut a, Field::of(&cat::RADIUS));
+    a.event(&key(KeyCode::Right));
+    a.event(&key(KeyCode::Char('c')));
+    select(&mut a, Field::of(&cat::INLET_PRESSURE));
+    a.event(&key(KeyCode::Right));
+    a.event(&key(KeyCode::Char('c')));
+    let labels = |a: &App| a.pins.iter().map(|p| p.label.clone()).collect::<Vec<_>>();
+    assert_eq!(labels(&a), ["pin 1", "pin 2", "pin 3"]);
+    assert!(a.settle(SETTLE));
+    let c = match a.comparison.result.as_deref() {
+        Some(Ok(c)) => c.clone(),
+        other => panic!("{other:?}"),
+    };
+    let per = super::views::compare_differences(&c, |_| Some(3));
+    assert_eq!(
+        per[0],
+        ("pin 2".to_string(), vec!["radius (all arms)".to_string()])
+    );
+    assert_eq!(
+        per[1],
+        (
+            "pin 3".to_string(),
+            vec![
+                "inlet pressure".to_string(),
+                "radius (all arms)".to_string()
+            ]
+        )
+    );
+    let s = screen(&mut a, 160, 48);
+    assert!(s.contains("pin 2 against pin 1: radius (all arms)"), "{s}");
+    // Alike on every arm: one row for the rotor, not one per arm.
+    assert!(s.contains("arms radius mm  "), "{s}");
+    assert!(!s.contains("arm 2 radius"), "{s}");
+
+    // Pick the middle pin and drop it.
+    a.event(&key(KeyCode::Char(']')));
+    assert_eq!(a.pin_selected, 1);
+    a.event(&key(KeyCode::Char('x')));
+    assert_eq!(labels(&a), ["pin 1", "pin 3"]);
+    // A new pin takes the free number, not a used one.
+    a.event(&key(KeyCode::Char('c')));
+    assert_eq!(labels(&a), ["pin 1", "pin 3", "pin 2"]);
+    // Move the last pin to the front: it becomes the baseline.
+    a.event(&key(KeyCode::Char(']')));
+    assert_eq!(a.pin_selected, 2);
+    a.event(&key(KeyCode::Char('<')));
+    a.event(&key(KeyCode::Char('<')));
+    assert_eq!(labels(&a), ["pin 2", "pin 1", "pin 3"]);
+    assert_eq!(a.pin_selected, 0);
+    a.event(&key(KeyCode::Char('<')));
+    assert_eq!(
+        labels(&a),
+        ["pin 2", "pin 1", "pin 3"],
+        "the first stays first"
+    );
+    a.event(&key(KeyCode::Char('>')));
+    assert_eq!(labels(&a), ["pin 1", "pin 2", "pin 3"]);
+    assert!(a.settle(SETTLE));
+    let c = match a.comparison.result.as_deref() {
+        Some(Ok(c)) => c.clone(),
+        other => panic!("{other:?}"),
+    };
+    assert_eq!(c.names, ["pin 1", "pin 2", "pin 3", "now"]);
+    insta::assert_snapshot!("compare_three_pins_160x48", screen(&mut a, 160, 48));
+}
+
+#[test]
+fn the_starter_and_every_shipped_scenario_open_with_their_arms_together() {
+    for system in [UnitSystem::Metric, UnitSystem::Us] {
+        let sc = scenario::load_str(&scenario::starter_text(system), "starter").unwrap();
+        let a = App::from_scenario(sc, None, None).unwrap();
+        assert_eq!(a.arms, Arms::Together, "starter in {system}");
+    }
+    let mut n = 0;
+    for path in super::app::scenario_files(std::path::Path::new(env!("CARGO_MANIFEST_DIR"))) {
+        let a = App::open(Some(&path)).unwrap();
+        assert_eq!(
+            a.arms,
+            Arms::Together,
+            "{}: {:?}",
+            path.display(),
+            fields::arms_alike(&a.design)
+        );
+        assert!(a.rows.contains(&Row::AllArmsHeading));
+        n += 1;
+    }
+    assert!(n >= 4, "{n} scenarios found");
 }

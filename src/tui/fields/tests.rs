@@ -13,7 +13,7 @@ fn design() -> Design {
 #[test]
 fn the_list_follows_the_catalogue_with_headings() {
     let d = design();
-    let rows = rows(&d);
+    let rows = rows(&d, Arms::Apart);
     assert_eq!(rows.first(), Some(&Row::Group(Group::Supply)));
     assert_eq!(rows.get(1), Some(&Row::Field(Field::of(&SUPPLY))));
     let groups: Vec<Group> = rows
@@ -40,7 +40,7 @@ fn the_list_follows_the_catalogue_with_headings() {
 #[test]
 fn every_listed_number_reads_back_what_it_wrote() {
     let d = design();
-    for row in rows(&d) {
+    for row in rows(&d, Arms::Apart) {
         let Row::Field(f) = row else { continue };
         if f.kind() != Kind::Number {
             continue;
@@ -56,16 +56,16 @@ fn every_listed_number_reads_back_what_it_wrote() {
 #[test]
 fn steps_are_round_in_both_systems() {
     let nozzle = Field::on_arm(&NOZZLE_DIAMETER, 0);
-    assert_eq!(display_step(nozzle, UnitSystem::Metric, false), 0.1);
+    assert_eq!(display_step(nozzle, UnitSystem::Metric, Stride::Fine), 0.1);
     // 0.1 mm = 0.0039 in → 0.005 in.
-    assert!((display_step(nozzle, UnitSystem::Us, false) - 0.005).abs() < 1e-15);
+    assert!((display_step(nozzle, UnitSystem::Us, Stride::Fine) - 0.005).abs() < 1e-15);
     let p = Field::of(&INLET_PRESSURE);
-    assert_eq!(display_step(p, UnitSystem::Metric, true), 50.0);
+    assert_eq!(display_step(p, UnitSystem::Metric, Stride::Coarse), 50.0);
     // 5 kPa = 0.725 psi → 1 psi.
-    assert_eq!(display_step(p, UnitSystem::Us, false), 1.0);
+    assert_eq!(display_step(p, UnitSystem::Us, Stride::Fine), 1.0);
     // 1 °C = 1.8 °F → 2 °F (a difference, no offset).
     let w = Field::of(&WATER_TEMPERATURE);
-    assert_eq!(display_step(w, UnitSystem::Us, false), 2.0);
+    assert_eq!(display_step(w, UnitSystem::Us, Stride::Fine), 2.0);
 }
 
 #[test]
@@ -83,10 +83,10 @@ fn wind_direction_states_its_reference_and_steps_by_an_eighth_turn() {
         f.describe()
     );
     for system in [UnitSystem::Metric, UnitSystem::Us] {
-        assert_eq!(display_step(f, system, false), 5.0);
-        assert_eq!(display_step(f, system, true), 45.0);
+        assert_eq!(display_step(f, system, Stride::Fine), 5.0);
+        assert_eq!(display_step(f, system, Stride::Coarse), 45.0);
     }
-    let next = nudged(f, 0.0, UnitSystem::Metric, true, true);
+    let next = nudged(f, 0.0, UnitSystem::Metric, true, Stride::Coarse);
     assert!((next - 45f64.to_radians()).abs() < 1e-12);
 }
 
@@ -127,25 +127,25 @@ fn seal_slope_is_shown_per_pressure() {
         .unwrap()
         .unwrap();
     assert!((typed - 3.0e-6).abs() < 1e-15);
-    let up = nudged(f, 2.0e-6, UnitSystem::Metric, true, false);
+    let up = nudged(f, 2.0e-6, UnitSystem::Metric, true, Stride::Fine);
     assert!((up - 2.01e-6).abs() < 1e-15, "{up}");
 }
 
 #[test]
 fn nudges_land_on_round_values() {
     let f = Field::on_arm(&NOZZLE_DIAMETER, 0);
-    let up = nudged(f, 2.43e-3, UnitSystem::Metric, true, false);
+    let up = nudged(f, 2.43e-3, UnitSystem::Metric, true, Stride::Fine);
     assert!((up - 2.5e-3).abs() < 1e-12, "{up}");
-    let down = nudged(f, 2.43e-3, UnitSystem::Metric, false, false);
+    let down = nudged(f, 2.43e-3, UnitSystem::Metric, false, Stride::Fine);
     assert!((down - 2.4e-3).abs() < 1e-12, "{down}");
-    let from_grid = nudged(f, 2.4e-3, UnitSystem::Metric, false, false);
+    let from_grid = nudged(f, 2.4e-3, UnitSystem::Metric, false, Stride::Fine);
     assert!((from_grid - 2.3e-3).abs() < 1e-12, "{from_grid}");
     let p = nudged(
         Field::of(&INLET_PRESSURE),
         300e3,
         UnitSystem::Metric,
         true,
-        true,
+        Stride::Coarse,
     );
     assert!((p - 350e3).abs() < 1e-6);
     let t = nudged(
@@ -153,7 +153,7 @@ fn nudges_land_on_round_values() {
         15.0,
         UnitSystem::Us,
         true,
-        false,
+        Stride::Fine,
     );
     // 15 °C = 59 °F → 60 °F = 15.56 °C.
     assert!((t - (60.0 - 32.0) / 1.8).abs() < 1e-9, "{t}");
@@ -182,7 +182,7 @@ fn typed_values_need_a_unit_of_the_right_kind_or_the_shown_one() {
 fn typing_seed_reads_back_to_the_same_value() {
     let d = design();
     for system in [UnitSystem::Metric, UnitSystem::Us] {
-        for row in rows(&d) {
+        for row in rows(&d, Arms::Apart) {
             let Row::Field(f) = row else { continue };
             if f.kind() != Kind::Number {
                 continue;
@@ -234,4 +234,58 @@ fn choices_cycle_through_every_option_and_back() {
         seen.dedup();
         assert_eq!(seen.len(), n, "{f:?}");
     }
+}
+
+#[test]
+fn the_whole_rotor_block_edits_every_arm_and_keeps_them_spread() {
+    let d = design();
+    assert_eq!(arms_alike(&d), Ok(()));
+    let together = rows(&d, Arms::Together);
+    assert_eq!(
+        together
+            .iter()
+            .filter(|r| **r == Row::AllArmsHeading)
+            .count(),
+        1
+    );
+    assert!(!together.iter().any(|r| matches!(r, Row::ArmHeading(_))));
+    let radius = Field::of(&RADIUS);
+    assert!(radius.all_arms());
+    assert!(together.contains(&Row::Field(radius)));
+    let mut e = d.clone();
+    assert!(radius.set_number(&mut e, Some(0.31)));
+    assert!(e.rotor.arms.iter().all(|a| a.radius_m == 0.31));
+    assert_eq!(arms_alike(&e), Ok(()));
+    // Turning the rotor keeps the arms evenly spread.
+    let az = Field::of(&crate::catalogue::AZIMUTH);
+    assert!(az.set_number(&mut e, Some(10f64.to_radians())));
+    assert_eq!(arms_alike(&e), Ok(()));
+    // One arm changed: they are no longer alike, and it says how.
+    assert!(Field::on_arm(&NOZZLE_CD, 1).set_number(&mut e, Some(0.9)));
+    assert_eq!(arms_alike(&e), Err("the arms differ in Cd".to_string()));
+    // Seven arms written to six figures are still evenly spread.
+    let mut g = d.clone();
+    g.rotor.arms = vec![g.rotor.arms[0]; 7];
+    respace(&mut g);
+    for a in &mut g.rotor.arms {
+        let deg: f64 = format!("{:.5e}", a.azimuth_rad.to_degrees())
+            .parse()
+            .unwrap();
+        a.azimuth_rad = deg.to_radians();
+    }
+    assert_eq!(arms_alike(&g), Ok(()));
+    let mut f = d.clone();
+    f.rotor.arms[2].azimuth_rad += 0.1;
+    assert!(arms_alike(&f).unwrap_err().contains("evenly spread"));
+}
+
+#[test]
+fn the_finer_step_is_a_tenth_of_the_fine_one() {
+    let f = Field::of(&crate::catalogue::DEFLECTION);
+    let m = UnitSystem::Metric;
+    assert_eq!(display_step(f, m, Stride::Fine), 1.0);
+    assert!((display_step(f, m, Stride::Finer) - 0.1).abs() < 1e-15);
+    let from = 87f64.to_radians();
+    let up = nudged(f, from, m, true, Stride::Finer);
+    assert!(((up - from).to_degrees() - 0.1).abs() < 1e-9, "{up}");
 }

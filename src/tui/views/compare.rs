@@ -60,9 +60,17 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
     let col_w = (width.saturating_sub(label_w) / n.max(1) as u16).max(8);
     let mut widths = vec![Constraint::Length(label_w)];
     widths.extend(std::iter::repeat_n(Constraint::Length(col_w), n));
-    let mut rows = vec![Row::new(
-        std::iter::once(Cell::from("")).chain(c.names.iter().map(|s| Cell::from(s.clone()))),
-    )
+    let pins = app.pins.len();
+    let chosen = app.pin_selected.min(pins.saturating_sub(1));
+    let mut rows = vec![Row::new(std::iter::once(Cell::from("")).chain(
+        c.names.iter().enumerate().map(|(k, s)| {
+            if pins > 1 && k == chosen && k < pins {
+                Cell::from(Span::styled(format!("▸{s}"), t.selected()))
+            } else {
+                Cell::from(s.clone())
+            }
+        }),
+    ))
     .style(t.heading())];
     rows.push(Row::new(vec![Cell::from(Span::styled(
         "results",
@@ -122,8 +130,16 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
             "  (none: the inputs are the same)",
         )]));
     }
-    for i in &c.inputs {
-        let label = input_label(i, app.units);
+    for (i, all) in merged_inputs(c, arm_counts(app)) {
+        let label = if all {
+            let on_arm_one = input_label(i, app.units);
+            format!(
+                "arms {}",
+                on_arm_one.strip_prefix("arm 1 ").unwrap_or(&on_arm_one)
+            )
+        } else {
+            input_label(i, app.units)
+        };
         let first = i.values.first().cloned().flatten();
         let mut cells = vec![Cell::from(label)];
         for (k, v) in i.values.iter().enumerate() {
@@ -140,11 +156,102 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
     (rows, widths)
 }
 
+/// The arm count of each compared design (the pins, then the design now).
+fn arm_counts(app: &App) -> impl Fn(usize) -> Option<usize> + '_ {
+    |k: usize| {
+        app.pins
+            .get(k)
+            .map(|p| &p.design)
+            .or((k == app.pins.len()).then_some(&app.design))
+            .map(|d| d.rotor.arms.len())
+    }
+}
+
+/// The differing inputs as the table lists them: a per-arm input that
+/// differs alike on every arm of designs with the same arm count is one row
+/// (`true`: all arms, labelled `arms radius mm`), not a row per arm.
+fn merged_inputs(
+    c: &Comparison,
+    arms: impl Fn(usize) -> Option<usize>,
+) -> Vec<(&InputDifference, bool)> {
+    let columns = c.names.len();
+    let mut out = Vec::new();
+    let mut merged: Vec<&'static str> = Vec::new();
+    for i in &c.inputs {
+        if i.arm.is_some() && merged.contains(&i.input.path) {
+            continue;
+        }
+        if i.arm == Some(0) {
+            let group: Vec<&InputDifference> =
+                c.inputs.iter().filter(|j| j.input == i.input).collect();
+            let m = group.len();
+            let every_arm = group.iter().enumerate().all(|(k, j)| j.arm == Some(k));
+            let same_count = (0..columns).all(|k| arms(k) == Some(m));
+            let alike = group.iter().all(|j| j.values == i.values);
+            if m > 1 && every_arm && same_count && alike {
+                merged.push(i.input.path);
+                out.push((i, true));
+                continue;
+            }
+        }
+        out.push((i, false));
+    }
+    out
+}
+
+/// For each design after the first, its name and the inputs in which it
+/// differs from the first, in the list's words: `radius (all arms)`,
+/// `nozzle (arm 2)`, `inlet pressure`. `arms(k)` is design `k`'s arm count.
+pub fn differences_per_design(
+    c: &Comparison,
+    arms: impl Fn(usize) -> Option<usize>,
+) -> Vec<(String, Vec<String>)> {
+    c.names
+        .iter()
+        .enumerate()
+        .skip(1)
+        .map(|(k, name)| {
+            // Inputs in first-seen order, each with the arms it differs on.
+            let mut found: Vec<(&'static str, Vec<usize>)> = Vec::new();
+            for i in &c.inputs {
+                let first = i.values.first().cloned().flatten();
+                if i.values.get(k).cloned().flatten() == first {
+                    continue;
+                }
+                let label = i.input.label;
+                let at = match found.iter().position(|(l, _)| *l == label) {
+                    Some(at) => at,
+                    None => {
+                        found.push((label, Vec::new()));
+                        found.len() - 1
+                    }
+                };
+                if let (Some(arm), Some((_, list))) = (i.arm, found.get_mut(at)) {
+                    list.push(arm);
+                }
+            }
+            let words = found
+                .into_iter()
+                .map(|(label, list)| match list.len() {
+                    0 => label.to_string(),
+                    n if arms(k) == Some(n) && n > 1 => format!("{label} (all arms)"),
+                    1 => format!("{label} (arm {})", list.first().map_or(0, |a| a + 1)),
+                    _ => {
+                        let l: Vec<String> = list.iter().map(|a| (a + 1).to_string()).collect();
+                        format!("{label} (arms {})", l.join(", "))
+                    }
+                })
+                .collect();
+            (name.clone(), words)
+        })
+        .collect()
+}
+
 /// Draws the Compare view.
 pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
     let t = &app.theme;
     let mut head = vec![Line::styled(
-        "deltas against the first pin · c pins the design as it is now · o, then c on a file, adds a saved scenario · x drops the last pin",
+        "deltas against the first pin · c pins the design as it is now · o, then c on a file, adds a saved scenario · [ ] picks a pin (▸), < > moves it, x drops it",
         t.dim(),
     )];
     if app.pins.is_empty() {
@@ -157,6 +264,21 @@ pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
     }
     if app.comparison.waiting {
         head.push(Line::styled("computing…", t.dim()));
+    }
+    if let Some(Ok(c)) = app.comparison.result.as_deref() {
+        let arms = arm_counts(app);
+        let base = c.names.first().cloned().unwrap_or_default();
+        for (name, words) in differences_per_design(c, arms) {
+            let what = if words.is_empty() {
+                "the same inputs".to_string()
+            } else {
+                words.join(", ")
+            };
+            head.push(Line::from(vec![
+                Span::styled(format!("{name} against {base}: "), t.heading()),
+                Span::raw(what),
+            ]));
+        }
     }
     let head_h = super::wrapped_rows(&head, area.width).min(area.height);
     let [top, body] =

@@ -101,12 +101,12 @@ fn unit_lines(app: &App) -> Vec<Line<'static>> {
     };
     if u.rows.is_empty() {
         lines.push(Line::styled(
-            format!("a adds the reading above to a table for a fit · d coast-down{keep}"),
+            format!("n adds the reading above to a table for a fit · d coast-down{keep}"),
             t.dim(),
         ));
     } else {
         lines.push(Line::styled(
-            format!("readings table (a adds, x drops the last){keep}"),
+            format!("readings table (n adds, x drops the last){keep}"),
             t.heading(),
         ));
         for (k, r) in u.rows.iter().enumerate() {

@@ -13,6 +13,10 @@ pub const KEYS: &[(&str, &str)] = &[
     ("← →", "nudge the value a fine step (choices: change)"),
     ("Shift+← →", "nudge a coarse step (ten fine steps)"),
     (
+        "Alt+← →",
+        "nudge a finer step (a tenth of a fine step; Ctrl+← → too); the hint line shows all three",
+    ),
+    (
         "Enter",
         "type a value with its unit: 2.8bar, 45psi, 6.5in, 22deg, auto",
     ),
@@ -22,9 +26,16 @@ pub const KEYS: &[(&str, &str)] = &[
     ),
     (
         "+  -",
-        "add an arm (a copy of the selected one) / remove the selected arm",
+        "add an arm (a copy of the selected one) / remove the selected arm; arms are spread evenly",
     ),
-    ("*", "copy the selected arm's nozzle to every arm"),
+    (
+        "a",
+        "arms together (one block edits every arm, azimuths evenly spread) / apart (each arm on its own); joining needs the arms alike",
+    ),
+    (
+        "*",
+        "arms apart: copy the selected arm (radius, height, rise, tube, nozzle) to every arm; azimuths kept",
+    ),
     (
         "Tab  Shift+Tab  1-5",
         "switch view: Balance, Throw, Pattern, Field, Compare",
@@ -39,7 +50,7 @@ pub const KEYS: &[(&str, &str)] = &[
         "Field view: type the measured pressure, rotation (40rpm, 1.5s, 10/14.2s), flow (12L/min, 5L in 30s), wetted radius",
     ),
     (
-        "a  x",
+        "n  x",
         "Field view: add the reading above to the table of readings / drop the last row; the table is fitted (running friction, brake)",
     ),
     (
@@ -51,7 +62,10 @@ pub const KEYS: &[(&str, &str)] = &[
         "Field view: keep the readings when another file opens (they are cleared otherwise)",
     ),
     ("c", "pin the current design for Compare"),
-    ("x", "Compare view: drop the last pinned design"),
+    (
+        "[ ]  < >  x",
+        "Compare view: pick a pin (▸) / move it left or right (the first is the baseline) / drop it",
+    ),
     ("u", "switch between metric and US units"),
     ("s  S", "save / save as: only changed values change, comments stay; the old file is kept as .bak"),
     (

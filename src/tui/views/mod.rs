@@ -19,11 +19,12 @@ use ratatui::widgets::{Block, Borders, Clear, Paragraph, Wrap};
 use ratatui::Frame;
 
 use super::app::{App, Confirm, InputTarget, Level, Measure, Mode, View};
-use super::fields::{self, Field, Kind, Row};
+use super::fields::{self, Arms, Field, Kind, Row, Stride};
 use super::layout;
 use crate::physics::balance::{rpm, SpinStatus};
 use crate::units::{format_quantity, Dimension as D};
 
+pub use compare::differences_per_design as compare_differences;
 pub use help::help_lines;
 
 /// Draws the whole screen.
@@ -180,8 +181,13 @@ fn draw_list(app: &App, frame: &mut Frame, left: Rect, list: Rect) {
                 let fill = w.saturating_sub(head.chars().count());
                 Line::styled(format!("{head}{}", "╌".repeat(fill)), t.dim())
             }
+            Row::AllArmsHeading => {
+                let head = format!("  all {n_arms} arms alike ");
+                let fill = w.saturating_sub(head.chars().count());
+                Line::styled(format!("{head}{}", "╌".repeat(fill)), t.dim())
+            }
             Row::Field(f) => {
-                let indent = if f.arm().is_some() { 3 } else { 2 };
+                let indent = if f.input.per_arm() { 3 } else { 2 };
                 let value = match typing {
                     Some((tf, text)) if tf == *f => format!("{text}▏"),
                     _ => f.show(&app.design, app.units),
@@ -214,8 +220,8 @@ fn draw_tabs(app: &App, frame: &mut Frame, area: Rect) {
 }
 
 fn field_hint(app: &App, f: Field) -> String {
-    let step = |coarse| {
-        let s = fields::display_step(f, app.units, coarse);
+    let step = |stride| {
+        let s = fields::display_step(f, app.units, stride);
         let label = f.unit().label(app.units);
         let n = crate::units::format_number(s);
         match label.as_str() {
@@ -225,17 +231,27 @@ fn field_hint(app: &App, f: Field) -> String {
         }
     };
     let what = f.describe();
-    let arm = f
-        .arm()
-        .map(|k| format!(" (arm {})", k + 1))
-        .unwrap_or_default();
+    let arm = match f.arm() {
+        Some(k) => format!(" (arm {})", k + 1),
+        None if f.all_arms() => {
+            let n = app.design.rotor.arms.len();
+            if f.input == &crate::catalogue::AZIMUTH {
+                format!(" (arm 1; all {n} evenly spread)")
+            } else {
+                format!(" (all {n} arms)")
+            }
+        }
+        None => String::new(),
+    };
     match f.kind() {
         Kind::Choice => format!("{what}{arm} · ←/→ change"),
         Kind::Text => format!("{what} · Enter to type"),
+        // The steps first, so a narrow screen still shows them.
         Kind::Number | Kind::OptionalNumber => format!(
-            "{what}{arm} · ←/→ ±{} · ⇧ ±{}{}",
-            step(false),
-            step(true),
+            "step ±{} (⇧ ±{}, Alt ±{}) · {what}{arm}{}",
+            step(Stride::Fine),
+            step(Stride::Coarse),
+            step(Stride::Finer),
             if f.kind() == Kind::OptionalNumber {
                 " · Enter: a value or auto"
             } else {
@@ -329,11 +345,25 @@ pub fn keys_here(app: &App) -> Vec<(&'static str, &'static str)> {
             match app.selected_field().map(|f| (f, f.kind())) {
                 Some((_, Kind::Choice)) => k.push(("←→", "change")),
                 Some((_, Kind::Text)) => k.push(("Enter", "type")),
-                Some(_) => k.extend([("←→", "nudge"), ("⇧←→", "coarse"), ("Enter", "type")]),
+                Some(_) => k.extend([
+                    ("←→", "nudge"),
+                    ("⇧←→", "coarse"),
+                    ("Alt←→", "finer"),
+                    ("Enter", "type"),
+                ]),
                 None => {}
             }
-            if app.selected_field().and_then(Field::arm).is_some() {
-                k.extend([("+", "arm"), ("-", "arm"), ("*", "nozzle to all")]);
+            if app.selected_field().is_some_and(|f| f.input.per_arm()) {
+                k.extend([("+", "arm"), ("-", "arm")]);
+                match app.arms {
+                    Arms::Together => k.push(("a", "split arms")),
+                    Arms::Apart => {
+                        k.push(("*", "arm to all"));
+                        if fields::arms_alike(&app.design).is_ok() {
+                            k.push(("a", "join arms"));
+                        }
+                    }
+                }
             }
             match app.view {
                 View::Balance => k.push(("PgUp/Dn", "table")),
@@ -342,11 +372,11 @@ pub fn keys_here(app: &App) -> Vec<(&'static str, &'static str)> {
                     ("r", "rotation"),
                     ("f", "flow"),
                     ("t", "throw"),
-                    ("a/x", "table row"),
+                    ("n/x", "table row"),
                     ("d", "coast-down"),
                     ("k", "keep"),
                 ]),
-                View::Compare => k.push(("x", "unpin")),
+                View::Compare => k.extend([("[ ]", "pick pin"), ("< >", "move"), ("x", "unpin")]),
                 View::Throw | View::Pattern => {}
             }
             k.extend([
