@@ -5,3 +5,4 @@
 
 pub mod field;
 pub mod fit;
+pub mod page;
