@@ -220,6 +220,7 @@ h1 { margin-bottom: 0.2em; }
 table { border-collapse: collapse; margin: 0.5em 0 1em 0; }
 td, th { padding: 0.15em 0.8em 0.15em 0; text-align: left; vertical-align: top; }
 th { font-weight: normal; color: #555; }
+table.arms td, table.arms th + th { text-align: right; }
 .notes { white-space: pre-wrap; background: #f6f6f2; padding: 0.5em; }
 .warn { color: #8a2b00; }
 figure { margin: 1em 0; }
@@ -381,14 +382,10 @@ fn operating_section(s: &Solved) -> String {
             &mut h,
             "layout",
             &format!(
-                "{} at {}{}: CU {:.1} %, DU (low quarter) {:.1} %, mean rate {}",
+                "{}, heads {} apart along rows {} apart: CU {:.1} %, DU (low quarter) {:.1} %, mean rate {}",
                 pattern_name(&l.layout),
                 s.q(D::Length, l.spacing_m),
-                if (l.rows_m - l.spacing_m).abs() > 1e-9 {
-                    format!(" by {}", s.q(D::Length, l.rows_m))
-                } else {
-                    String::new()
-                },
+                s.q(D::Length, l.rows_m),
                 l.uniformity.cu_percent,
                 l.uniformity.du_lq_percent,
                 s.q(D::ApplicationRate, l.mean_rate_mm_h / M_S_TO_MM_H)
@@ -409,7 +406,9 @@ fn warnings_section(s: &Solved) -> String {
         .chain(s.cautions.iter().map(|c| crate::words::caution(c, s.units)))
         .collect();
     if words.is_empty() {
-        h.push_str("<p>None: the design passes the start, speed, pressure, spin-up and clearance checks.</p>\n");
+        h.push_str("<p>None: the model warns of nothing, and no practice check fires (start margin, speed, \
+             tip speed, spin-raised nozzle pressure, spin-up time, and the overhead clearance \
+             when the scenario states one).</p>\n");
     } else {
         h.push_str("<ul>\n");
         for w in words {
@@ -424,24 +423,41 @@ fn warnings_section(s: &Solved) -> String {
 fn inputs_section(s: &Solved) -> String {
     let mut h = String::from("<section id=\"inputs\">\n<h2>Design inputs</h2>\n");
     let present = catalogue::present(s.design);
+    let arms = s.design.rotor.arms.len();
     for group in Group::ALL {
         let items: Vec<_> = present.iter().filter(|(i, _)| i.group == group).collect();
         if items.is_empty() {
             continue;
         }
         h.push_str(&format!("<h3>{}</h3>\n<table>\n", escape(group.title())));
-        for (input, arm) in items {
-            let label = match arm {
-                Some(k) => format!("arm {}: {}", k + 1, input.label),
-                None => input.label.to_string(),
-            };
+        for (input, _) in items.iter().filter(|(_, arm)| arm.is_none()) {
             row(
                 &mut h,
-                &escape(&label),
-                &escape(&input.show(s.design, *arm, s.units)),
+                &escape(input.label),
+                &escape(&input.show(s.design, None, s.units)),
             );
         }
         h.push_str("</table>\n");
+        // Per-arm inputs: one row per input, one column per arm.
+        let per_arm: Vec<_> = items.iter().filter(|(_, arm)| *arm == Some(0)).collect();
+        if !per_arm.is_empty() {
+            h.push_str("<table class=\"arms\">\n<tr><th></th>");
+            for k in 0..arms {
+                h.push_str(&format!("<th>arm {}</th>", k + 1));
+            }
+            h.push_str("</tr>\n");
+            for (input, _) in per_arm {
+                h.push_str(&format!("<tr><th>{}</th>", escape(input.label)));
+                for k in 0..arms {
+                    h.push_str(&format!(
+                        "<td>{}</td>",
+                        escape(&input.show(s.design, Some(k), s.units))
+                    ));
+                }
+                h.push_str("</tr>\n");
+            }
+            h.push_str("</table>\n");
+        }
     }
     h.push_str("</section>\n");
     h
