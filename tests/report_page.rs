@@ -207,3 +207,49 @@ fn bad_input_names_the_file_and_writes_nothing() {
         .assert()
         .code(2);
 }
+
+#[test]
+fn a_stalled_design_without_a_layout_still_gets_four_charts_and_its_warnings() {
+    let dir = tempfile::tempdir().unwrap();
+    // Stuck (as in the CLI's stalling test), no layout, a low stated clearance.
+    let text = std::fs::read_to_string(root().join("scenarios/lawn-rotor.ron"))
+        .unwrap()
+        .replace("mu_static: 0.15", "mu_static: 40.0")
+        .replace(
+            "    layout: Square(spacing: m(8)),\n",
+            "    clearance: m(0.5),\n",
+        );
+    let file = dir.path().join("stuck.ron");
+    std::fs::write(&file, text).unwrap();
+    let json = solve_json(&file);
+    assert_eq!(json["status"], "stalls_at_rest");
+    let html = page(&file, "metric", &dir);
+    let doc = parse(&html).unwrap();
+    let ids: Vec<&str> = doc
+        .descendants()
+        .filter(|n| n.tag_name().name() == "svg")
+        .filter_map(|n| n.attribute("id"))
+        .collect();
+    assert_eq!(ids, CHART_IDS);
+    assert!(doc
+        .descendants()
+        .all(|n| n.attribute("id") != Some("speed")));
+    assert!(text_of(&doc, "operating").contains("stalls at rest"));
+    assert!(text_of(&doc, "chart-layout").contains("no layout"));
+    let warnings = text_of(&doc, "warnings");
+    // The model's warning and the practice caution, as `solve` words them.
+    for w in json["warnings"].as_array().unwrap() {
+        assert!(
+            warnings.contains(w.as_str().unwrap()),
+            "{w} not in {warnings}"
+        );
+    }
+    assert!(
+        warnings.contains("above the stated clearance of 0.500 m"),
+        "{warnings}"
+    );
+    // The wetted radius at rest agrees with solve's.
+    let (r, _) = number_and_unit(&text_of(&doc, "wetted-radius"));
+    let want = json["wetted_radius_m"].as_f64().unwrap();
+    assert!((r - want).abs() <= 0.005 * want, "{r} against {want}");
+}
