@@ -207,7 +207,7 @@ pub fn page(design: &Design, job: &Job, units: UnitSystem) -> Result<String, Pag
     }
     h.push_str("</ul>\n</section>\n");
     h.push_str(&format!(
-        "<footer>Written by spinwright {}. Still air, model as described in its docs/model.md.</footer>\n",
+        "<footer>Written by spinwright {}. Throw, drop paths and profile are for still air.</footer>\n",
         env!("CARGO_PKG_VERSION")
     ));
     h.push_str("</body>\n</html>\n");
