@@ -15,7 +15,8 @@
 //! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
 //! - [`rate_map`]: the picture of water on the ground (rate scale, colours,
 //!   shading, driest quarter, heads), shared by the command line and the interface.
-//! - [`report`]: typed results put into words, in metric or US units.
+//! - [`report`]: typed results put into words, in metric or US units, and the
+//!   HTML page of a design with its charts (`report::page`).
 //! - [`cli`]: the command line, a thin layer over the above.
 //! - [`tui`]: the terminal interface, the other thin layer (the only terminal code).
 //! - [`crash`]: the panic hook: terminal restored, crash report written.

@@ -10,6 +10,7 @@ mod inverse;
 mod pattern_conservation;
 mod reference_fluid;
 mod reference_pipe;
+mod report_page;
 mod scenario_files;
 mod scenario_roundtrip;
 mod support;

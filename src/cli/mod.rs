@@ -9,6 +9,7 @@ mod fit;
 mod inverse;
 mod layout;
 mod log;
+mod report;
 mod solve;
 mod table;
 pub mod text;
@@ -230,6 +231,17 @@ pub enum Command {
         /// Format and units of the report.
         #[command(flatten)]
         out: Output,
+    },
+    /// Write the design as one self-contained HTML page: inputs, operating point, warnings, charts.
+    Report {
+        /// The scenario file.
+        file: PathBuf,
+        /// The page to write (an existing file is kept as .bak).
+        #[arg(long, value_name = "HTML")]
+        out: PathBuf,
+        /// Unit system of the numbers on the page.
+        #[arg(long, value_enum, default_value_t = Units::Metric)]
+        units: Units,
     },
     /// Write a commented starter scenario.
     New {
@@ -536,6 +548,11 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             out: o,
         } => inverse::run_sweep(&file, &vary, layout, o, out),
         Command::Compare { files, out: o } => inverse::run_compare(&files, o, out),
+        Command::Report {
+            file,
+            out: page,
+            units,
+        } => report::run(&file, &page, units.into(), out),
         Command::New { file, units, force } => new_scenario(&file, units.into(), force, out),
     }
 }
