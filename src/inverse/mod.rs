@@ -5,12 +5,14 @@
 //! model to measurements: several speed readings at different pressures
 //! ([`fit`]) and a coast-down after the water is shut off ([`coast`]), on a
 //! small Levenberg–Marquardt least squares ([`lsq`]); readings files are parsed
-//! in [`readings`]. Pure: no terminal, no files (the callers read them).
+//! in [`readings`]. A design search ([`search`]) finds the values of a few
+//! free inputs that meet goals and maximise an objective. Pure: no terminal, no files (the callers read them).
 
 pub mod coast;
 pub mod compare;
 pub mod fit;
 pub mod lsq;
 pub mod readings;
+pub mod search;
 pub mod sweep;
 pub mod target;
