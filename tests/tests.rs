@@ -12,6 +12,7 @@ mod reference_fluid;
 mod reference_pipe;
 mod scenario_files;
 mod scenario_roundtrip;
+mod search;
 mod support;
 mod throw_published;
 mod throw_rotation;

@@ -9,6 +9,7 @@ mod fit;
 mod inverse;
 mod layout;
 mod log;
+mod search;
 mod solve;
 mod table;
 pub mod text;
@@ -225,6 +226,8 @@ pub enum Command {
         #[command(flatten)]
         out: Output,
     },
+    /// Search free inputs for a design that meets goals and maximises an objective.
+    Search(search::SearchArgs),
     /// Write a commented starter scenario.
     New {
         /// Where to write it (refused if it exists, unless --force).
@@ -526,6 +529,7 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             out: o,
         } => inverse::run_sweep(&file, &vary, layout, o, out),
         Command::Compare { files, out: o } => inverse::run_compare(&files, o, out),
+        Command::Search(args) => search::run(&args, out),
         Command::New { file, units, force } => new_scenario(&file, units.into(), force, out),
     }
 }

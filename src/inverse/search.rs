@@ -800,7 +800,11 @@ pub fn search(
     // Latin hypercube.
     let own: Vec<f64> = free
         .iter()
-        .map(|f| f.input.varied_value(design).unwrap_or(0.5 * (f.from + f.to)))
+        .map(|f| {
+            f.input
+                .varied_value(design)
+                .unwrap_or(0.5 * (f.from + f.to))
+        })
         .collect();
     let mut starts = vec![problem.unit(&own)];
     starts.extend(latin_hypercube(
