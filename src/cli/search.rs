@@ -110,7 +110,7 @@ pub fn parse_free(text: &str) -> Result<Free, CliError> {
         .ok_or_else(|| bad("no `..` between the ends"))?;
     let from = parameter_value("--free", input, from)?;
     let to = parameter_value("--free", input, to)?;
-    if !(to > from) {
+    if to <= from {
         return Err(bad("the range must run from a lower to a higher value"));
     }
     Ok(Free { input, from, to })
