@@ -13,6 +13,7 @@ mod reference_pipe;
 mod report_page;
 mod scenario_files;
 mod scenario_roundtrip;
+mod search;
 mod support;
 mod throw_published;
 mod throw_rotation;

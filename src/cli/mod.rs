@@ -10,6 +10,7 @@ mod inverse;
 mod layout;
 mod log;
 mod report;
+mod search;
 mod solve;
 mod table;
 pub mod text;
@@ -243,6 +244,8 @@ pub enum Command {
         #[arg(long, value_enum, default_value_t = Units::Metric)]
         units: Units,
     },
+    /// Search free inputs for a design that meets goals and maximises an objective.
+    Search(search::SearchArgs),
     /// Write a commented starter scenario.
     New {
         /// Where to write it (refused if it exists, unless --force).
@@ -553,6 +556,7 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             out: page,
             units,
         } => report::run(&file, &page, units.into(), out),
+        Command::Search(args) => search::run(&args, out),
         Command::New { file, units, force } => new_scenario(&file, units.into(), force, out),
     }
 }

@@ -6,7 +6,9 @@
 //! ([`fit`]) and a coast-down after the water is shut off ([`coast`]), on a
 //! small Levenberg–Marquardt least squares ([`lsq`]); readings files are parsed
 //! in [`readings`]. A catch-can leg fits the spray's jet breakup ([`leg`], a
-//! scan and a golden-section search over one parameter). Pure: no terminal, no files (the callers read them).
+//! scan and a golden-section search over one parameter). A design search
+//! ([`search`]) finds the values of a few free inputs that meet goals and
+//! maximise an objective. Pure: no terminal, no files (the callers read them).
 
 pub mod coast;
 pub mod compare;
@@ -14,5 +16,6 @@ pub mod fit;
 pub mod leg;
 pub mod lsq;
 pub mod readings;
+pub mod search;
 pub mod sweep;
 pub mod target;
