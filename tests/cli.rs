@@ -219,6 +219,42 @@ fn table_has_forty_rows_by_default_and_honours_points() {
 }
 
 #[test]
+fn the_default_table_is_dense_from_rest_to_the_operating_point() {
+    // Issue 12: at least half the rows between rest and 1.5 × the operating
+    // speed; the operating point itself is a row (net torque ≈ 0 there);
+    // --points still sets the total (common practice for a table meant to be read).
+    let file = scenario("lawn-rotor.ron");
+    let solved = bin()
+        .args(["solve", file.to_str().unwrap(), "--format", "json"])
+        .output()
+        .unwrap();
+    let s: serde_json::Value = serde_json::from_slice(&solved.stdout).unwrap();
+    let op_rpm = s["operating_point"]["rpm"].as_f64().expect("operating rpm");
+    for points in [None, Some("15")] {
+        let mut args = vec!["table", file.to_str().unwrap(), "--format", "json"];
+        if let Some(p) = points {
+            args.extend(["--points", p]);
+        }
+        let out = bin().args(&args).output().unwrap();
+        assert!(out.status.success());
+        let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+        let rpms: Vec<f64> = v
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|r| r["rpm"].as_f64().unwrap())
+            .collect();
+        assert_eq!(rpms.len(), points.map_or(41, |p| p.parse().unwrap()));
+        let near = rpms.iter().filter(|&&w| w <= 1.5 * op_rpm * (1.0 + 1e-9)).count();
+        assert!(2 * near >= rpms.len(), "{near} of {} rows: {rpms:?}", rpms.len());
+        assert!(
+            rpms.iter().any(|&w| (w / op_rpm - 1.0).abs() < 1e-6),
+            "{op_rpm} rpm not a row: {rpms:?}"
+        );
+    }
+}
+
+#[test]
 fn a_syntax_error_names_the_file_line_and_column() {
     let dir = tempfile::tempdir().unwrap();
     let text = std::fs::read_to_string(scenario("lawn-rotor.ron"))
