@@ -97,6 +97,20 @@ pub enum Command {
         /// Depth the driest quarter should get each watering (e.g. 12mm, 0.5in): the run time and cycles for it.
         #[arg(long, value_name = "DEPTH")]
         target_depth: Option<String>,
+        /// Recommend the largest spacing of each pattern meeting the goal (--cu, default 85 %, or --du), in calm air and in the scenario's wind.
+        #[arg(long)]
+        recommend: bool,
+        /// CU goal of --recommend, % (e.g. 85).
+        #[arg(
+            long,
+            requires = "recommend",
+            conflicts_with = "du",
+            value_name = "PERCENT"
+        )]
+        cu: Option<String>,
+        /// Low-quarter DU goal of --recommend, % (e.g. 75).
+        #[arg(long, requires = "recommend", value_name = "PERCENT")]
+        du: Option<String>,
         /// Format and units of the report.
         #[command(flatten)]
         out: Output,
@@ -398,8 +412,37 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             intake,
             catch_cans,
             target_depth,
+            recommend,
+            cu,
+            du,
             out: o,
         } => {
+            let recommend = if recommend {
+                Some(layout::RecommendArgs {
+                    goal: spacing_goal(cu.as_deref(), du.as_deref())?,
+                    pattern,
+                    rows_m: rows
+                        .as_deref()
+                        .map(|r| {
+                            positive_quantity(
+                                "--rows",
+                                crate::units::Dimension::Length,
+                                r,
+                                "a spacing",
+                            )
+                        })
+                        .transpose()?,
+                })
+            } else {
+                None
+            };
+            // With --recommend and no --spacing, --pattern and --rows shape
+            // the recommendation alone.
+            let (pattern, rows) = if recommend.is_some() && spacing.is_none() {
+                (None, None)
+            } else {
+                (pattern, rows)
+            };
             let target_depth_mm = match target_depth {
                 Some(t) => {
                     let m = quantity("--target-depth", crate::units::Dimension::SmallLength, &t)?;
@@ -429,6 +472,7 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
                 target_depth_mm,
                 width: layout::terminal_width(),
                 colour: layout::colour_wanted(),
+                recommend,
             };
             layout::run(&file, &args, o, out)
         }
@@ -607,6 +651,29 @@ fn must_be_positive(argument: &str, text: &str, what: &str, v: f64) -> Result<f6
     } else {
         Ok(v)
     }
+}
+
+/// The uniformity goal of `layout --recommend`: `--cu` or `--du` in %,
+/// CU 85 % when neither is given.
+fn spacing_goal(
+    cu: Option<&str>,
+    du: Option<&str>,
+) -> Result<crate::physics::layout::SpacingGoal, CliError> {
+    use crate::physics::layout::SpacingGoal;
+    let percent = |arg: &str, text: &str| -> Result<f64, CliError> {
+        let t = text.trim().trim_end_matches('%').trim();
+        match t.parse::<f64>() {
+            Ok(v) if v.is_finite() && v > 0.0 && v <= 100.0 => Ok(v),
+            _ => Err(CliError::Usage(format!(
+                "{arg} {text}: a goal in percent above 0 and at most 100 (e.g. {arg} 85)"
+            ))),
+        }
+    };
+    Ok(match (cu, du) {
+        (_, Some(d)) => SpacingGoal::DuLq(percent("--du", d)?),
+        (Some(c), None) => SpacingGoal::Cu(percent("--cu", c)?),
+        (None, None) => SpacingGoal::Cu(85.0),
+    })
 }
 
 fn layout_override(

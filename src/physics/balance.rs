@@ -785,11 +785,7 @@ pub fn torque_table(design: &Design, report: &SpinReport, points: usize) -> Vec<
 /// operating point. At least half the rows lie between rest and 1.5 ω_op.
 pub fn table_speeds(top: f64, operating_rad_s: Option<f64>, points: usize) -> Vec<f64> {
     let n = points.max(2);
-    let even = |n: usize| -> Vec<f64> {
-        (0..n)
-            .map(|k| top * k as f64 / (n - 1) as f64)
-            .collect()
-    };
+    let even = |n: usize| -> Vec<f64> { (0..n).map(|k| top * k as f64 / (n - 1) as f64).collect() };
     let op = match operating_rad_s {
         Some(w) if w.is_finite() && w > 0.0 && 1.5 * w < top && n >= 8 => w,
         _ => return even(n),
