@@ -871,9 +871,11 @@ fn sweep_rows_and_statuses() {
             "sweep",
             file.to_str().unwrap(),
             "--vary",
-            "deflection=0:120:5",
+            "deflection=0..120",
             "--vary",
-            "pressure=150kPa:400kPa:3",
+            "pressure=150kPa..400kPa",
+            "--points",
+            "5,3",
             "--format",
             "csv",
         ])
@@ -896,10 +898,92 @@ fn sweep_rows_and_statuses() {
     // Forward-facing nozzles (120°) do not drive: a row that says so, not an abort.
     assert!(text.contains("stalls_at_rest"));
     bin()
-        .args(["sweep", file.to_str().unwrap(), "--vary", "colour=1:2:3"])
+        .args(["sweep", file.to_str().unwrap(), "--vary", "colour=1..2"])
         .assert()
         .code(2)
-        .stderr(predicate::str::contains("unknown parameter"));
+        .stderr(predicate::str::contains("unknown input"));
+    // The old colon form is refused with the new spelling.
+    bin()
+        .args([
+            "sweep",
+            file.to_str().unwrap(),
+            "--vary",
+            "deflection=0:60:13",
+        ])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains(
+            "--vary deflection=0..60 --points 13",
+        ));
+}
+
+#[test]
+fn sweeps_vary_spacing_and_brake_and_show_any_figure() {
+    // Issue 12: spacing and brake sweep like any other input; --points sets
+    // the count (default 11); a two-axis grid shows the figure asked for,
+    // its labels at one precision.
+    let file = scenario("lawn-rotor.ron");
+    let f = file.to_str().unwrap();
+    let v = json(&[
+        "sweep",
+        f,
+        "--vary",
+        "spacing=8m..14m",
+        "--points",
+        "7",
+        "--layout",
+        "--format",
+        "json",
+    ]);
+    let rows = v.as_array().unwrap();
+    assert_eq!(rows.len(), 7);
+    let spacing: Vec<f64> = rows
+        .iter()
+        .map(|r| r["spacing_m"].as_f64().unwrap())
+        .collect();
+    assert_eq!(spacing, vec![8.0, 9.0, 10.0, 11.0, 12.0, 13.0, 14.0]);
+    // Heads further apart: CU at 14 m below CU at 8 m (same head, less overlap).
+    let cu = |r: &serde_json::Value| r["cu_percent"].as_f64().unwrap();
+    assert!(cu(&rows[6]) < cu(&rows[0]), "{rows:?}");
+    let v = json(&["sweep", f, "--vary", "brake=0..0.002", "--format", "json"]);
+    let rows = v.as_array().unwrap();
+    assert_eq!(rows.len(), 11);
+    let rpm = |r: &serde_json::Value| r["rpm"].as_f64().unwrap();
+    assert!(rpm(&rows[10]) < rpm(&rows[0]), "a brake slows the rotor");
+    assert!(rows[0]["viscous_n_m_s_rad"].is_number());
+    let (code, text, err) = run(&[
+        "sweep",
+        f,
+        "--vary",
+        "pressure=150kPa..400kPa",
+        "--vary",
+        "deflection=0..20",
+        "--points",
+        "4,3",
+        "--show",
+        "throw",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        text.contains("wetted radius m: pressure kPa \\ deflection °"),
+        "{text}"
+    );
+    // Row labels at one precision: 150, 233, 317, 400 (not 150 / 233.3 / …).
+    for label in ["\n150 ", "\n233 ", "\n317 ", "\n400 "] {
+        assert!(text.contains(label), "{label:?} in {text}");
+    }
+    let (code, _, err) = run(&[
+        "sweep",
+        f,
+        "--vary",
+        "pressure=150kPa..400kPa",
+        "--vary",
+        "deflection=0..20",
+        "--show",
+        "cu",
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("--show cu needs --layout"), "{err}");
 }
 
 #[test]
@@ -1380,7 +1464,9 @@ fn csv_and_text_honour_the_unit_system() {
         "sweep",
         f,
         "--vary",
-        "pressure=40psi:50psi:2",
+        "pressure=40psi..50psi",
+        "--points",
+        "2",
         "--format",
         "csv",
         "--units",

@@ -10,7 +10,7 @@ use serde::Serialize;
 use super::text::{csv_number, sig, TextTable};
 use super::{
     load_design, positive_number, positive_quantity, positive_quantity_or_bare, positive_rpm,
-    quantity, CliError, Format, Outcome, Output,
+    quantity, CliError, Format, Outcome, Output, ShowArg,
 };
 use crate::catalogue::{self, Input};
 use crate::inverse::compare::{compare_with_coverage, Comparison, InputValue};
@@ -57,17 +57,51 @@ pub fn parameter_value(argument: &str, p: &Input, text: &str) -> Result<f64, Cli
     }
 }
 
-/// Parse `NAME=FROM:TO:STEPS`.
-pub fn parse_axis(text: &str) -> Result<SweepAxis, CliError> {
+/// Largest number of points along one sweep axis.
+pub const MAX_POINTS: usize = 100_000;
+
+/// Parse `--points N` or `--points N,M`: the points along each of `axes`
+/// axes (one number serves every axis).
+pub fn parse_points(text: &str, axes: usize) -> Result<Vec<usize>, CliError> {
+    let bad = |why: String| CliError::Usage(format!("--points {text}: {why}"));
+    let counts = text
+        .split(',')
+        .map(|t| {
+            t.trim()
+                .parse::<usize>()
+                .ok()
+                .filter(|n| (1..=MAX_POINTS).contains(n))
+                .ok_or_else(|| {
+                    bad(format!(
+                        "`{}` is not a whole number from 1 to {MAX_POINTS}",
+                        t.trim()
+                    ))
+                })
+        })
+        .collect::<Result<Vec<_>, _>>()?;
+    match (counts.as_slice(), axes) {
+        ([n], k) => Ok(vec![*n; k]),
+        (c, k) if c.len() == k => Ok(c.to_vec()),
+        (c, k) => Err(bad(format!(
+            "{} counts for {k} --vary axis{}; give one, or one per axis",
+            c.len(),
+            if k == 1 { "" } else { "es" }
+        ))),
+    }
+}
+
+/// Parse `NAME=FROM..TO` into an axis of `points` values. The old form
+/// `NAME=FROM:TO:STEPS` is refused with the new spelling in the message.
+pub fn parse_axis(text: &str, points: usize) -> Result<SweepAxis, CliError> {
     let bad = |why: &str| {
         CliError::Usage(format!(
-            "--vary {text}: {why} (write NAME=FROM:TO:STEPS, e.g. deflection=0:60:13)"
+            "--vary {text}: {why} (write NAME=FROM..TO, e.g. --vary deflection=0..60 --points 13)"
         ))
     };
     let (name, range) = text.split_once('=').ok_or_else(|| bad("no `=`"))?;
     let parameter = catalogue::by_vary_name(name.trim()).ok_or_else(|| {
         CliError::Usage(format!(
-            "--vary {text}: unknown parameter `{}`; known: {}",
+            "--vary {text}: unknown input `{}`; known: {}",
             name.trim(),
             catalogue::varied()
                 .map(|p| p.vary_name())
@@ -75,23 +109,71 @@ pub fn parse_axis(text: &str) -> Result<SweepAxis, CliError> {
                 .join(", ")
         ))
     })?;
-    let parts: Vec<&str> = range.split(':').collect();
-    let [from, to, steps] = parts.as_slice() else {
-        return Err(bad("expected three parts FROM:TO:STEPS"));
+    let Some((from, to)) = range.split_once("..") else {
+        let parts: Vec<&str> = range.split(':').collect();
+        if let [from, to, steps] = parts.as_slice() {
+            return Err(CliError::Usage(format!(
+                "--vary {text}: a range is now written FROM..TO with the number of points apart: \
+                 --vary {}={}..{} --points {}",
+                name.trim(),
+                from.trim(),
+                to.trim(),
+                steps.trim()
+            )));
+        }
+        return Err(bad("expected FROM..TO"));
     };
-    let steps: usize = steps
-        .trim()
-        .parse()
-        .map_err(|_| bad("STEPS is not a whole number"))?;
-    if steps == 0 || steps > 100_000 {
-        return Err(bad("STEPS must be 1 to 100000"));
+    if points == 0 || points > MAX_POINTS {
+        return Err(bad("the number of points must be 1 to 100000"));
     }
     Ok(SweepAxis {
         input: parameter,
         from: parameter_value("--vary", parameter, from)?,
         to: parameter_value("--vary", parameter, to)?,
-        steps,
+        steps: points,
     })
+}
+
+/// Labels for the values of one axis, all at one precision: the fewest
+/// decimals (up to 6) that tell neighbours apart and put every label within
+/// 1 % of a step of its value.
+pub fn axis_labels(values: &[f64]) -> Vec<String> {
+    let step = values
+        .windows(2)
+        .filter_map(|w| match w {
+            [a, b] => Some((b - a).abs()),
+            _ => None,
+        })
+        .filter(|d| *d > 0.0)
+        .fold(f64::INFINITY, f64::min);
+    let scale = values.iter().fold(0.0f64, |m, v| m.max(v.abs()));
+    let tolerance = if step.is_finite() {
+        0.01 * step
+    } else {
+        5e-4 * scale.max(1e-12)
+    };
+    let label = |v: f64, d: usize| {
+        let t = format!("{v:.d$}");
+        if t.trim_start_matches('-')
+            .chars()
+            .all(|c| c == '0' || c == '.')
+        {
+            t.trim_start_matches('-').to_string()
+        } else {
+            t
+        }
+    };
+    for d in 0..=6 {
+        let labels: Vec<String> = values.iter().map(|&v| label(v, d)).collect();
+        let close = values
+            .iter()
+            .zip(&labels)
+            .all(|(v, l)| l.parse::<f64>().is_ok_and(|x| (x - v).abs() <= tolerance));
+        if close {
+            return labels;
+        }
+    }
+    values.iter().map(|&v| label(v, 6)).collect()
 }
 
 /// How the rotation was read.
@@ -701,19 +783,45 @@ struct Extra {
     cu_percent: Option<f64>,
 }
 
+/// Options of `sweep`.
+#[derive(Debug, Clone)]
+pub struct SweepArgs {
+    /// `--vary NAME=FROM..TO`, one or two.
+    pub vary: Vec<String>,
+    /// `--points N` or `N,M`.
+    pub points: String,
+    /// Rate the scenario's layout at each point.
+    pub layout: bool,
+    /// The figure of a two-axis grid.
+    pub show: Option<ShowArg>,
+}
+
 /// Run `sweep`.
 pub fn run_sweep(
     path: &Path,
-    vary: &[String],
-    with_layout: bool,
+    args: &SweepArgs,
     o: Output,
     out: &mut dyn Write,
 ) -> Result<Outcome, CliError> {
-    let design = load_design(path)?;
-    let axes = vary
+    let with_layout = args.layout;
+    let counts = parse_points(&args.points, args.vary.len())?;
+    let axes = args
+        .vary
         .iter()
-        .map(|v| parse_axis(v))
+        .zip(&counts)
+        .map(|(v, &n)| parse_axis(v, n))
         .collect::<Result<Vec<_>, _>>()?;
+    let show = args.show.unwrap_or(ShowArg::Rpm);
+    if args.show.is_some() && (axes.len() != 2 || o.format != Format::Text) {
+        return Err(CliError::Usage(
+            "--show picks the figure of a two-axis text grid; one axis, CSV and JSON show every figure"
+                .into(),
+        ));
+    }
+    if show == ShowArg::Cu && !with_layout {
+        return Err(CliError::Usage("--show cu needs --layout".into()));
+    }
+    let design = load_design(path)?;
     if with_layout && design.layout.is_none() {
         return Err(CliError::Usage(format!(
             "{}: --layout needs a layout in the scenario",
@@ -842,32 +950,59 @@ pub fn run_sweep(
                 Some(dim) => format!("{} {}", a.input.vary_name(), unit_label(dim, units)),
                 None => a.input.vary_name().to_string(),
             };
-            let show = |a: &SweepAxis, v: f64| match parameter_dimension(a.input) {
-                Some(dim) => sig(Some(to_display(dim, v, units)), 4),
-                None => sig(Some(v), 4),
+            let labels = |a: &SweepAxis| {
+                let shown: Vec<f64> = a
+                    .values()
+                    .iter()
+                    .map(|&v| match parameter_dimension(a.input) {
+                        Some(dim) => to_display(dim, v, units),
+                        None => v,
+                    })
+                    .collect();
+                axis_labels(&shown)
             };
             writeln!(out, "{}: {} points", design.name, result.rows.len())?;
             if let [a, b] = axes.as_slice() {
-                // A grid of rpm: first axis down, second across.
+                // A grid of the chosen figure: first axis down, second across.
+                let title = match show {
+                    ShowArg::Rpm => "rpm".to_string(),
+                    ShowArg::Throw => format!("wetted radius {}", unit_label(D::Length, units)),
+                    ShowArg::Cu => "CU %".to_string(),
+                    ShowArg::Flow => format!("flow {}", unit_label(D::Flow, units)),
+                    ShowArg::Margin => "start margin".to_string(),
+                };
                 let mut t = TextTable::new(
-                    std::iter::once(format!("rpm: {} \\ {}", head(a), head(b)))
-                        .chain(b.values().iter().map(|v| show(b, *v))),
+                    std::iter::once(format!("{title}: {} \\ {}", head(a), head(b)))
+                        .chain(labels(b)),
                 );
-                for (i, va) in a.values().iter().enumerate() {
-                    let cells = result
-                        .rows
-                        .iter()
-                        .skip(i * b.steps)
-                        .take(b.steps)
-                        .map(|r| match r.rpm {
-                            Some(x) => format!("{x:.0}"),
-                            None => match r.status.key() {
-                                "stalls_at_rest" => "stall".into(),
-                                "no_equilibrium" => "none".into(),
-                                _ => "bad".into(),
-                            },
-                        });
-                    t.row(std::iter::once(show(a, *va)).chain(cells));
+                let status_word = |r: &crate::inverse::sweep::SweepRow<Extra>| match r.status.key()
+                {
+                    "stalls_at_rest" => "stall".to_string(),
+                    "no_equilibrium" => "none".to_string(),
+                    "invalid" => "bad".to_string(),
+                    _ => "–".to_string(),
+                };
+                for (i, la) in labels(a).into_iter().enumerate() {
+                    let cells = result.rows.iter().skip(i * b.steps).take(b.steps).map(|r| {
+                        let e = r.extra.unwrap_or_default();
+                        let figure = match show {
+                            ShowArg::Rpm => r.rpm.map(|x| format!("{x:.0}")),
+                            ShowArg::Throw => e
+                                .wetted_radius_m
+                                .map(|x| sig(Some(to_display(D::Length, x, units)), 3)),
+                            ShowArg::Cu => e.cu_percent.map(|x| format!("{x:.1}")),
+                            ShowArg::Flow => r
+                                .total_flow_m3_s
+                                .map(|x| sig(Some(to_display(D::Flow, x, units)), 3)),
+                            ShowArg::Margin => r.start_margin.map(|x| format!("{x:.2}")),
+                        };
+                        match (figure, r.status.key()) {
+                            (Some(f), "running") => f,
+                            (Some(f), _) if show != ShowArg::Rpm => f,
+                            _ => status_word(r),
+                        }
+                    });
+                    t.row(std::iter::once(la).chain(cells));
                 }
                 write!(out, "{}", t.render(0))?;
                 writeln!(
@@ -887,12 +1022,12 @@ pub fn run_sweep(
                     headers.push("CU %".into());
                 }
                 let mut t = TextTable::new(headers);
-                for row in &result.rows {
+                let axis_labels: Vec<Vec<String>> = axes.iter().map(labels).collect();
+                for (k, row) in result.rows.iter().enumerate() {
                     let e = row.extra.unwrap_or_default();
-                    let mut cells: Vec<String> = axes
+                    let mut cells: Vec<String> = axis_labels
                         .iter()
-                        .zip(&row.values)
-                        .map(|(a, v)| show(a, *v))
+                        .map(|l| l.get(k).cloned().unwrap_or_default())
                         .collect();
                     cells.extend([
                         row.status.key().replace('_', " "),
@@ -1167,6 +1302,22 @@ impl ShownResult {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn axis_labels_share_one_precision() {
+        assert_eq!(axis_labels(&[0.0, 10.0, 20.0]), vec!["0", "10", "20"]);
+        assert_eq!(
+            axis_labels(&[150.0, 150.0 + 250.0 / 3.0, 150.0 + 500.0 / 3.0, 400.0]),
+            vec!["150", "233", "317", "400"]
+        );
+        assert_eq!(axis_labels(&[0.0, 0.25, 0.5]), vec!["0.00", "0.25", "0.50"]);
+        assert_eq!(axis_labels(&[-0.1, 0.0, 0.1]), vec!["-0.1", "0.0", "0.1"]);
+        assert_eq!(parse_points("13,6", 2).unwrap(), vec![13, 6]);
+        assert_eq!(parse_points("7", 2).unwrap(), vec![7, 7]);
+        assert!(parse_points("0", 1).is_err());
+        assert!(parse_points("3,4", 1).is_err());
+        assert!(parse_points("x", 1).is_err());
+    }
 
     #[test]
     fn compared_names_lose_their_si_suffix_only() {

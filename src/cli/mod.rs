@@ -216,16 +216,22 @@ pub enum Command {
         #[command(flatten)]
         output: Output,
     },
-    /// Sweep one or two parameters: --vary NAME=FROM:TO:STEPS.
+    /// Sweep one or two design inputs: --vary NAME=FROM..TO --points N.
     Sweep {
         /// The scenario file.
         file: PathBuf,
-        /// A parameter and its range, e.g. deflection=0:60:13 or pressure=150kPa:400kPa:6.
-        #[arg(long, required = true)]
+        /// An input and its range, e.g. deflection=0..60 or pressure=150kPa..400kPa (any catalogue input).
+        #[arg(long, required = true, allow_hyphen_values = true)]
         vary: Vec<String>,
+        /// Points along each axis, both ends included: N, or N,M for two axes (default 11).
+        #[arg(long, default_value = "11")]
+        points: String,
         /// Also rate the scenario's layout at each point (CU).
         #[arg(long)]
         layout: bool,
+        /// What a two-axis grid shows (default rpm).
+        #[arg(long, value_enum)]
+        show: Option<ShowArg>,
         /// Format and units of the report.
         #[command(flatten)]
         out: Output,
@@ -261,6 +267,21 @@ pub struct Output {
     /// Unit system for text and CSV (JSON is always SI with the unit in each key).
     #[arg(long, value_enum, default_value_t = Units::Metric)]
     pub units: Units,
+}
+
+/// The figure a two-axis sweep grid shows.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum ShowArg {
+    /// Operating speed, rpm.
+    Rpm,
+    /// Wetted radius.
+    Throw,
+    /// CU on the scenario's layout, % (needs --layout).
+    Cu,
+    /// Total flow.
+    Flow,
+    /// Start margin (stall over breakaway torque).
+    Margin,
 }
 
 /// Layout patterns on the command line.
@@ -566,9 +587,21 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
         Command::Sweep {
             file,
             vary,
+            points,
             layout,
+            show,
             out: o,
-        } => inverse::run_sweep(&file, &vary, layout, o, out),
+        } => inverse::run_sweep(
+            &file,
+            &inverse::SweepArgs {
+                vary,
+                points,
+                layout,
+                show,
+            },
+            o,
+            out,
+        ),
         Command::Compare { files, out: o } => inverse::run_compare(&files, o, out),
         Command::New { file, units, force } => new_scenario(&file, units.into(), force, out),
     }
