@@ -987,6 +987,52 @@ fn sweeps_vary_spacing_and_brake_and_show_any_figure() {
 }
 
 #[test]
+fn an_unreachable_target_exits_1_under_strict_and_reports_the_result() {
+    // Field arm: the fastest deflection (straight back) gives about 26 rpm,
+    // so 30 rpm is out of reach by deflection; --strict makes that exit 1.
+    let file = scenario("field-arm.ron");
+    let f = file.to_str().unwrap();
+    let args = ["target", f, "--rpm", "30", "--adjust", "deflection"];
+    bin().args(args).assert().code(0);
+    bin()
+        .args(args)
+        .arg("--strict")
+        .assert()
+        .code(1)
+        .stdout(predicate::str::contains("out of reach"));
+    // A reachable one: exit 0 under --strict, with what the design then gives.
+    let lawn = scenario("lawn-rotor.ron");
+    let out = bin()
+        .args([
+            "target",
+            lawn.to_str().unwrap(),
+            "--rpm",
+            "30",
+            "--adjust",
+            "deflection",
+            "--strict",
+            "--format",
+            "json",
+        ])
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(0));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["reachable"], true);
+    assert!((v["rpm"].as_f64().unwrap() - 30.0).abs() < 0.01);
+    for key in [
+        "wetted_radius_m",
+        "start_margin",
+        "total_flow_m3_s",
+        "rpm_per_unit",
+    ] {
+        assert!(v[key].is_number(), "{key}: {v}");
+    }
+    // More deflection, less speed: a negative slope.
+    assert!(v["rpm_per_unit"].as_f64().unwrap() < 0.0);
+}
+
+#[test]
 fn compare_lists_differences_and_deltas() {
     let a = scenario("lawn-rotor.ron");
     let b = scenario("patio-rotor-us.ron");

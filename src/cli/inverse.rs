@@ -588,6 +588,77 @@ pub struct TargetArgs {
     pub adjust: String,
     /// Where to write the adjusted scenario.
     pub out: Option<PathBuf>,
+    /// Exit 1 when the target is out of reach.
+    pub strict: bool,
+}
+
+/// Start margin below which a target's result is warned of (common practice:
+/// a rotor that barely starts when new stops starting as it wears).
+pub const TARGET_MARGIN_WARNING: f64 = 1.5;
+
+/// What the adjusted design gives, and how touchy it is.
+#[derive(Debug, Clone, Default, Serialize)]
+struct Resulting {
+    rpm: Option<f64>,
+    wetted_radius_m: Option<f64>,
+    start_margin: Option<f64>,
+    total_flow_m3_s: Option<f64>,
+    /// rpm per SI unit of the adjusted value (central difference over a
+    /// tenth of the input's step).
+    rpm_per_unit: Option<f64>,
+    warnings: Vec<String>,
+}
+
+fn resulting(result: &TargetResult, units: UnitSystem) -> Resulting {
+    let report = &result.report;
+    let (rpm_op, margin, flow) = crate::inverse::sweep::summarize(report);
+    let adjust = result.adjust;
+    let h = 0.1 * adjust.step.fine;
+    let speed_at = |v: f64| {
+        let mut d = result.design.clone();
+        adjust.vary_to(&mut d, v).ok()?;
+        crate::physics::balance::solve_speed(&d)
+            .operating
+            .map(|op| crate::physics::balance::rpm(op.omega_rad_s()))
+    };
+    let (lo, hi) = (speed_at(result.value - h), speed_at(result.value + h));
+    let slope = match (lo, hi) {
+        (Some(a), Some(b)) if h > 0.0 => Some((b - a) / (2.0 * h)),
+        _ => None,
+    };
+    let mut warnings = Vec::new();
+    if let Some(m) = margin.filter(|m| *m < TARGET_MARGIN_WARNING) {
+        warnings.push(format!(
+            "start margin {m:.2} is below {TARGET_MARGIN_WARNING}: it may not start once worn"
+        ));
+    }
+    if let Some(base) = rpm_op.filter(|r| *r > 0.0) {
+        let worst = [lo, hi]
+            .into_iter()
+            .flatten()
+            .map(|r| (r - base).abs() / base)
+            .fold(0.0f64, f64::max);
+        let unreliable = lo.is_none() || hi.is_none();
+        if worst > 0.05 || unreliable {
+            warnings.push(format!(
+                "touchy: a tenth of a step ({}) moves the speed by {}",
+                show_adjust(adjust, h, units),
+                if unreliable {
+                    "so much the rotor stops or runs away".to_string()
+                } else {
+                    format!("{:.0} %", 100.0 * worst)
+                }
+            ));
+        }
+    }
+    Resulting {
+        rpm: rpm_op,
+        wetted_radius_m: throw_of(&result.design),
+        start_margin: margin,
+        total_flow_m3_s: flow,
+        rpm_per_unit: slope,
+        warnings,
+    }
 }
 
 #[derive(Debug, Serialize)]
@@ -601,6 +672,12 @@ struct TargetJson {
     #[serde(skip_serializing_if = "Option::is_none")]
     achieved_throw_m: Option<Option<f64>>,
     reachable: bool,
+    rpm: Option<f64>,
+    wetted_radius_m: Option<f64>,
+    start_margin: Option<f64>,
+    total_flow_m3_s: Option<f64>,
+    rpm_per_unit: Option<f64>,
+    warnings: Vec<String>,
     written_to: Option<String>,
 }
 
@@ -654,6 +731,7 @@ pub fn run_target(
     let result: TargetResult =
         target(&design, adjust, goal).map_err(|e| CliError::Usage(e.to_string()))?;
     let units: UnitSystem = o.units.into();
+    let res = resulting(&result, units);
     let written = match &args.out {
         Some(p) => {
             // The notes are the user's: kept as written. Only the adjusted
@@ -683,6 +761,12 @@ pub fn run_target(
                 achieved_rpm: rpm_goal.then_some(result.achieved),
                 achieved_throw_m: (!rpm_goal).then_some(result.achieved),
                 reachable: result.reachable,
+                rpm: res.rpm,
+                wetted_radius_m: res.wetted_radius_m,
+                start_margin: res.start_margin,
+                total_flow_m3_s: res.total_flow_m3_s,
+                rpm_per_unit: res.rpm_per_unit,
+                warnings: res.warnings.clone(),
                 written_to: written,
             };
             serde_json::to_writer_pretty(&mut *out, &j).map_err(std::io::Error::from)?;
@@ -768,12 +852,43 @@ pub fn run_target(
                     result.achieved.map_or("no running speed".into(), what)
                 )?;
             }
+            let opt = |v: Option<String>| v.unwrap_or_else(|| "—".into());
+            writeln!(
+                out,
+                "  then: {} · wetted radius {} · start margin {} · flow {}",
+                opt(res.rpm.map(|r| format!("{r:.1} rpm"))),
+                opt(res
+                    .wetted_radius_m
+                    .map(|r| format_quantity(D::Length, r, units))),
+                opt(res.start_margin.map(|m| format!("{m:.2}"))),
+                opt(res
+                    .total_flow_m3_s
+                    .map(|q| format_quantity(D::Flow, q, units))),
+            )?;
+            if let Some(k) = res.rpm_per_unit {
+                // rpm per display unit of the adjusted input.
+                let (per, unit) = match parameter_dimension(adjust) {
+                    Some(dim) => (
+                        k / to_display(dim, 1.0, units),
+                        unit_label(dim, units).to_string(),
+                    ),
+                    None => (k, adjust.unit.si_label().to_string()),
+                };
+                writeln!(out, "  sensitivity: {} rpm per {unit}", sig(Some(per), 3))?;
+            }
+            for w in &res.warnings {
+                writeln!(out, "  warning: {w}")?;
+            }
             if let Some(w) = written {
                 writeln!(out, "wrote the adjusted scenario to {w}")?;
             }
         }
     }
-    Ok(Outcome::Done)
+    Ok(if args.strict && !result.reachable {
+        Outcome::DesignProblem
+    } else {
+        Outcome::Done
+    })
 }
 
 /// Per-point extras of a sweep: wetted radius, and CU when a layout is rated.

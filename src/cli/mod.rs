@@ -212,6 +212,9 @@ pub enum Command {
         /// Write the adjusted scenario here (an existing file is kept as .bak).
         #[arg(long)]
         out: Option<PathBuf>,
+        /// Exit with status 1 when nothing in the range meets the target.
+        #[arg(long)]
+        strict: bool,
         /// Format and units of the report.
         #[command(flatten)]
         output: Output,
@@ -569,6 +572,7 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             throw,
             adjust,
             out: written,
+            strict,
             output,
         } => {
             let adjust = if adjust == "brake" {
@@ -581,6 +585,7 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
                 throw,
                 adjust,
                 out: written,
+                strict,
             };
             inverse::run_target(&file, &args, output, out)
         }
