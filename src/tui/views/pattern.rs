@@ -72,6 +72,17 @@ pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
                 second.push_str(&format!(" · Q/area {}", rate(l.expected_rate_mm_h)));
             }
             head.push(Line::raw(second));
+            if let Some(r) = &spray.recommended {
+                head.push(Line::styled(
+                    format!(
+                        "widest spacing for CU {:.0} %: {} × {} {lu}",
+                        crate::tui::worker::RECOMMEND_CU_PERCENT,
+                        num(to_display(D::Length, r.spacing_m, app.units)),
+                        num(to_display(D::Length, r.rows_m, app.units)),
+                    ),
+                    t.dim(),
+                ));
+            }
         }
         Some(Err(e)) => head.push(Line::styled(format!("layout: {e}"), t.error())),
         None => head.push(Line::styled(
