@@ -1033,6 +1033,47 @@ fn an_unreachable_target_exits_1_under_strict_and_reports_the_result() {
 }
 
 #[test]
+fn two_targets_with_two_adjustments() {
+    // Issue 12: --rpm 30 --throw 11m --adjust deflection,nozzle; the design
+    // found gives both (its own solve and throw, to the search tolerance).
+    let file = scenario("lawn-rotor.ron");
+    let v = json(&[
+        "target",
+        file.to_str().unwrap(),
+        "--rpm",
+        "30",
+        "--throw",
+        "11m",
+        "--adjust",
+        "deflection,nozzle",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(v["reachable"], true, "{v}");
+    assert!(
+        (v["rpm"].as_f64().unwrap() / 30.0 - 1.0).abs() < 1e-3,
+        "{v}"
+    );
+    assert!(
+        (v["wetted_radius_m"].as_f64().unwrap() / 11.0 - 1.0).abs() < 1e-3,
+        "{v}"
+    );
+    assert_eq!(v["parameters"][1], "nozzle");
+    // One target for two inputs is refused.
+    bin()
+        .args([
+            "target",
+            file.to_str().unwrap(),
+            "--rpm",
+            "30",
+            "--adjust",
+            "deflection,nozzle",
+        ])
+        .assert()
+        .code(2);
+}
+
+#[test]
 fn compare_lists_differences_and_deltas() {
     let a = scenario("lawn-rotor.ron");
     let b = scenario("patio-rotor-us.ron");

@@ -704,6 +704,9 @@ pub fn run_target(
     })?;
     let source = scenario::load_str(&original, &path.display().to_string())?;
     let design = source.to_design()?;
+    if let Some((first, second)) = args.adjust.split_once(',') {
+        return run_two_targets(&design, args, first.trim(), second.trim(), o, out);
+    }
     let adjust = catalogue::by_adjust_name(&args.adjust).ok_or_else(|| {
         CliError::Usage(format!(
             "--adjust {}: choose one of {}",
@@ -896,6 +899,111 @@ pub fn run_target(
 struct Extra {
     wetted_radius_m: Option<f64>,
     cu_percent: Option<f64>,
+}
+
+fn adjustable(name: &str) -> Result<&'static Input, CliError> {
+    let name = if name == "brake" { "viscous" } else { name };
+    catalogue::by_adjust_name(name).ok_or_else(|| {
+        CliError::Usage(format!(
+            "--adjust {name}: choose from {}",
+            catalogue::adjustable()
+                .map(|a| a.vary_name())
+                .collect::<Vec<_>>()
+                .join(", ")
+        ))
+    })
+}
+
+/// `target --rpm R --throw L --adjust A,B`: A meets the throw, B the speed
+/// (a nested solve, model.md M10).
+fn run_two_targets(
+    design: &Design,
+    args: &TargetArgs,
+    first: &str,
+    second: &str,
+    o: Output,
+    out: &mut dyn Write,
+) -> Result<Outcome, CliError> {
+    let (Some(r), Some(t)) = (&args.rpm, &args.throw) else {
+        return Err(CliError::Usage(
+            "two inputs to adjust need two targets: --rpm 30 --throw 11m --adjust deflection,nozzle"
+                .into(),
+        ));
+    };
+    if args.out.is_some() || o.format == Format::Csv {
+        return Err(CliError::Usage(
+            "two targets report in text or JSON and write no scenario (adjust one at a time for --out or CSV)"
+                .into(),
+        ));
+    }
+    let rpm = positive_rpm("--rpm", r, "the wanted speed")?;
+    let throw_m = positive_quantity("--throw", D::Length, t, "the wanted wetted radius")?;
+    let (a, b) = (adjustable(first)?, adjustable(second)?);
+    if std::ptr::eq(a, b) {
+        return Err(CliError::Usage(format!(
+            "--adjust {first},{second}: two different inputs, one per target"
+        )));
+    }
+    let (outer, inner) = crate::inverse::target::target_two(design, a, b, rpm, throw_m, throw_of)
+        .map_err(|e| CliError::Usage(e.to_string()))?;
+    let units: UnitSystem = o.units.into();
+    let res = resulting(&inner, units);
+    let met = outer.reachable && inner.reachable;
+    match o.format {
+        Format::Json => {
+            let j = serde_json::json!({
+                "parameters": [a.vary_name(), b.vary_name()],
+                "values": [outer.value, inner.value],
+                "units": [outer.unit, inner.unit],
+                "start_values": [outer.start_value, inner.start_value],
+                "reachable": met,
+                "rpm": res.rpm,
+                "wetted_radius_m": res.wetted_radius_m,
+                "start_margin": res.start_margin,
+                "total_flow_m3_s": res.total_flow_m3_s,
+                "warnings": res.warnings,
+            });
+            serde_json::to_writer_pretty(&mut *out, &j).map_err(std::io::Error::from)?;
+            writeln!(out)?;
+        }
+        _ => {
+            let opt = |v: Option<String>| v.unwrap_or_else(|| "—".into());
+            writeln!(
+                out,
+                "{}: {} {} (was {}) and {} {} (was {}) {} {:.1} rpm and {}",
+                design.name,
+                a.vary_name(),
+                show_adjust(a, outer.value, units),
+                show_adjust(a, outer.start_value, units),
+                b.vary_name(),
+                show_adjust(b, inner.value, units),
+                show_adjust(b, inner.start_value, units),
+                if met { "give" } else { "come nearest to" },
+                rpm,
+                format_quantity(D::Length, throw_m, units),
+            )?;
+            writeln!(
+                out,
+                "  then: {} · wetted radius {} · start margin {} · flow {}",
+                opt(res.rpm.map(|r| format!("{r:.1} rpm"))),
+                opt(res
+                    .wetted_radius_m
+                    .map(|r| format_quantity(D::Length, r, units))),
+                opt(res.start_margin.map(|m| format!("{m:.2}"))),
+                opt(res
+                    .total_flow_m3_s
+                    .map(|q| format_quantity(D::Flow, q, units))),
+            )?;
+            for w in &res.warnings {
+                writeln!(out, "  warning: {w}")?;
+            }
+        }
+    }
+    Ok(if args.strict && !met {
+        Outcome::DesignProblem
+    } else {
+        Outcome::Done
+    })
 }
 
 /// Options of `sweep`.

@@ -206,7 +206,7 @@ pub enum Command {
         /// Wanted wetted radius (e.g. 8m).
         #[arg(long, allow_hyphen_values = true)]
         throw: Option<String>,
-        /// What to adjust: deflection, elevation, radius, nozzle, viscous, quadratic (brake: viscous).
+        /// What to adjust: deflection, elevation, radius, nozzle, viscous, quadratic (brake: viscous); two, comma-separated (A,B), with --rpm and --throw: A for the throw, B for the speed.
         #[arg(long)]
         adjust: String,
         /// Write the adjusted scenario here (an existing file is kept as .bak).

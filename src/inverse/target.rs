@@ -372,6 +372,40 @@ pub fn target(
     })
 }
 
+/// Two targets, a speed and a wetted radius, met by two inputs: a nested
+/// 1-D solve on the full model (model.md M10). For each trial value of
+/// `for_throw`, `for_rpm` is set by [`target`] to give `rpm`; the outer
+/// [`target`] on `for_throw` then meets `throw_m` with the throw of that
+/// inner design. Returns the outer result (its design has `for_throw` set)
+/// and the inner one on it (its design has both set: the answer).
+pub fn target_two(
+    design: &Design,
+    for_throw: &'static Input,
+    for_rpm: &'static Input,
+    rpm: f64,
+    throw_m: f64,
+    throw: fn(&Design) -> Option<f64>,
+) -> Result<(TargetResult, TargetResult), TargetError> {
+    let throw_at = move |d: &Design| -> Option<f64> {
+        let r = target(d, for_rpm, Goal::Rpm(rpm)).ok()?;
+        if r.reachable {
+            throw(&r.design)
+        } else {
+            None
+        }
+    };
+    let outer = target(
+        design,
+        for_throw,
+        Goal::Throw {
+            radius_m: throw_m,
+            throw: &throw_at,
+        },
+    )?;
+    let last = target(&outer.design, for_rpm, Goal::Rpm(rpm))?;
+    Ok((outer, last))
+}
+
 /// The grid point nearest the target, refined by golden section between its
 /// neighbours. Returns (value, result).
 fn closest_point(
