@@ -219,6 +219,136 @@ fn table_has_forty_rows_by_default_and_honours_points() {
 }
 
 #[test]
+fn the_default_table_is_dense_from_rest_to_the_operating_point() {
+    // Issue 12: at least half the rows between rest and 1.5 × the operating
+    // speed; the operating point itself is a row (net torque ≈ 0 there);
+    // --points still sets the total (common practice for a table meant to be read).
+    let file = scenario("lawn-rotor.ron");
+    let solved = bin()
+        .args(["solve", file.to_str().unwrap(), "--format", "json"])
+        .output()
+        .unwrap();
+    let s: serde_json::Value = serde_json::from_slice(&solved.stdout).unwrap();
+    let op_rpm = s["operating_point"]["rpm"].as_f64().expect("operating rpm");
+    for points in [None, Some("15")] {
+        let mut args = vec!["table", file.to_str().unwrap(), "--format", "json"];
+        if let Some(p) = points {
+            args.extend(["--points", p]);
+        }
+        let out = bin().args(&args).output().unwrap();
+        assert!(out.status.success());
+        let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+        let rpms: Vec<f64> = v
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|r| r["rpm"].as_f64().unwrap())
+            .collect();
+        assert_eq!(rpms.len(), points.map_or(41, |p| p.parse().unwrap()));
+        let near = rpms
+            .iter()
+            .filter(|&&w| w <= 1.5 * op_rpm * (1.0 + 1e-9))
+            .count();
+        assert!(
+            2 * near >= rpms.len(),
+            "{near} of {} rows: {rpms:?}",
+            rpms.len()
+        );
+        assert!(
+            rpms.iter().any(|&w| (w / op_rpm - 1.0).abs() < 1e-6),
+            "{op_rpm} rpm not a row: {rpms:?}"
+        );
+    }
+}
+
+/// CU of `layout FILE --spacing … [--pattern …] [--rows …]`, from its JSON.
+fn layout_cu(file: &std::path::Path, pattern: &str, spacing_m: f64, rows_m: f64) -> f64 {
+    let spacing = format!("{spacing_m:.6}m");
+    let rows = format!("{rows_m:.6}m");
+    let mut args = vec![
+        "layout",
+        file.to_str().unwrap(),
+        "--format",
+        "json",
+        "--spacing",
+        &spacing,
+    ];
+    if pattern == "rectangle" {
+        args.extend(["--rows", &rows]);
+    } else {
+        args.extend(["--pattern", pattern]);
+    }
+    let out = bin().args(&args).output().unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    v["cu_percent"].as_f64().unwrap()
+}
+
+#[test]
+fn recommended_spacing_meets_the_goal_and_ten_percent_more_does_not() {
+    // Issue 12: for each pattern the recommended spacing meets the CU goal
+    // and 10 % more (rows scaled with it) does not; checked through the
+    // plain `layout` report, in the scenario's own wind (garden spinner:
+    // 2 m/s) and in calm air (lawn rotor).
+    for (name, goal) in [("lawn-rotor.ron", 85.0), ("garden-spinner.ron", 80.0)] {
+        let file = scenario(name);
+        let goal_arg = format!("{goal}");
+        let out = bin()
+            .args([
+                "layout",
+                file.to_str().unwrap(),
+                "--recommend",
+                "--cu",
+                &goal_arg,
+                "--format",
+                "json",
+            ])
+            .output()
+            .unwrap();
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+        assert_eq!(v["recommend_goal"]["metric"], "cu");
+        let recs = v["recommended"].as_array().unwrap();
+        let windy = v["cu_percent"].is_number() && name == "garden-spinner.ron";
+        assert_eq!(recs.len(), if windy { 6 } else { 3 });
+        for r in recs {
+            // The plain report computes in the scenario's wind: compare like with like.
+            if windy && r["wind_m_s"].as_f64().unwrap() == 0.0 {
+                continue;
+            }
+            let pattern = r["pattern"].as_str().unwrap();
+            let s = r["spacing_m"].as_f64().unwrap();
+            let l = r["rows_m"].as_f64().unwrap();
+            assert!(r["cu_percent"].as_f64().unwrap() >= goal, "{name} {r}");
+            let at = layout_cu(&file, pattern, s, l);
+            assert!(at >= goal - 1e-6, "{name} {pattern} at {s} m: CU {at}");
+            let wider = layout_cu(&file, pattern, 1.1 * s, 1.1 * l);
+            assert!(wider < goal, "{name} {pattern} at 1.1 × {s} m: CU {wider}");
+        }
+    }
+    // Both goals at once, or a goal past 100 %, are refused.
+    let file = scenario("lawn-rotor.ron");
+    let f = file.to_str().unwrap();
+    bin()
+        .args(["layout", f, "--recommend", "--cu", "85", "--du", "75"])
+        .assert()
+        .code(2);
+    bin()
+        .args(["layout", f, "--recommend", "--cu", "120"])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains("--cu 120"));
+}
+
+#[test]
 fn a_syntax_error_names_the_file_line_and_column() {
     let dir = tempfile::tempdir().unwrap();
     let text = std::fs::read_to_string(scenario("lawn-rotor.ron"))
@@ -741,9 +871,11 @@ fn sweep_rows_and_statuses() {
             "sweep",
             file.to_str().unwrap(),
             "--vary",
-            "deflection=0:120:5",
+            "deflection=0..120",
             "--vary",
-            "pressure=150kPa:400kPa:3",
+            "pressure=150kPa..400kPa",
+            "--points",
+            "5,3",
             "--format",
             "csv",
         ])
@@ -766,10 +898,179 @@ fn sweep_rows_and_statuses() {
     // Forward-facing nozzles (120°) do not drive: a row that says so, not an abort.
     assert!(text.contains("stalls_at_rest"));
     bin()
-        .args(["sweep", file.to_str().unwrap(), "--vary", "colour=1:2:3"])
+        .args(["sweep", file.to_str().unwrap(), "--vary", "colour=1..2"])
         .assert()
         .code(2)
-        .stderr(predicate::str::contains("unknown parameter"));
+        .stderr(predicate::str::contains("unknown input"));
+    // The old colon form is refused with the new spelling.
+    bin()
+        .args([
+            "sweep",
+            file.to_str().unwrap(),
+            "--vary",
+            "deflection=0:60:13",
+        ])
+        .assert()
+        .code(2)
+        .stderr(predicate::str::contains(
+            "--vary deflection=0..60 --points 13",
+        ));
+}
+
+#[test]
+fn sweeps_vary_spacing_and_brake_and_show_any_figure() {
+    // Issue 12: spacing and brake sweep like any other input; --points sets
+    // the count (default 11); a two-axis grid shows the figure asked for,
+    // its labels at one precision.
+    let file = scenario("lawn-rotor.ron");
+    let f = file.to_str().unwrap();
+    let v = json(&[
+        "sweep",
+        f,
+        "--vary",
+        "spacing=8m..14m",
+        "--points",
+        "7",
+        "--layout",
+        "--format",
+        "json",
+    ]);
+    let rows = v.as_array().unwrap();
+    assert_eq!(rows.len(), 7);
+    let spacing: Vec<f64> = rows
+        .iter()
+        .map(|r| r["spacing_m"].as_f64().unwrap())
+        .collect();
+    assert_eq!(spacing, vec![8.0, 9.0, 10.0, 11.0, 12.0, 13.0, 14.0]);
+    // Heads further apart: CU at 14 m below CU at 8 m (same head, less overlap).
+    let cu = |r: &serde_json::Value| r["cu_percent"].as_f64().unwrap();
+    assert!(cu(&rows[6]) < cu(&rows[0]), "{rows:?}");
+    let v = json(&["sweep", f, "--vary", "brake=0..0.002", "--format", "json"]);
+    let rows = v.as_array().unwrap();
+    assert_eq!(rows.len(), 11);
+    let rpm = |r: &serde_json::Value| r["rpm"].as_f64().unwrap();
+    assert!(rpm(&rows[10]) < rpm(&rows[0]), "a brake slows the rotor");
+    assert!(rows[0]["viscous_n_m_s_rad"].is_number());
+    let (code, text, err) = run(&[
+        "sweep",
+        f,
+        "--vary",
+        "pressure=150kPa..400kPa",
+        "--vary",
+        "deflection=0..20",
+        "--points",
+        "4,3",
+        "--show",
+        "throw",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        text.contains("wetted radius m: pressure kPa \\ deflection °"),
+        "{text}"
+    );
+    // Row labels at one precision: 150, 233, 317, 400 (not 150 / 233.3 / …).
+    for label in ["\n150 ", "\n233 ", "\n317 ", "\n400 "] {
+        assert!(text.contains(label), "{label:?} in {text}");
+    }
+    let (code, _, err) = run(&[
+        "sweep",
+        f,
+        "--vary",
+        "pressure=150kPa..400kPa",
+        "--vary",
+        "deflection=0..20",
+        "--show",
+        "cu",
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("--show cu needs --layout"), "{err}");
+}
+
+#[test]
+fn an_unreachable_target_exits_1_under_strict_and_reports_the_result() {
+    // Field arm: the fastest deflection (straight back) gives about 26 rpm,
+    // so 30 rpm is out of reach by deflection; --strict makes that exit 1.
+    let file = scenario("field-arm.ron");
+    let f = file.to_str().unwrap();
+    let args = ["target", f, "--rpm", "30", "--adjust", "deflection"];
+    bin().args(args).assert().code(0);
+    bin()
+        .args(args)
+        .arg("--strict")
+        .assert()
+        .code(1)
+        .stdout(predicate::str::contains("out of reach"));
+    // A reachable one: exit 0 under --strict, with what the design then gives.
+    let lawn = scenario("lawn-rotor.ron");
+    let out = bin()
+        .args([
+            "target",
+            lawn.to_str().unwrap(),
+            "--rpm",
+            "30",
+            "--adjust",
+            "deflection",
+            "--strict",
+            "--format",
+            "json",
+        ])
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(0));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["reachable"], true);
+    assert!((v["rpm"].as_f64().unwrap() - 30.0).abs() < 0.01);
+    for key in [
+        "wetted_radius_m",
+        "start_margin",
+        "total_flow_m3_s",
+        "rpm_per_unit",
+    ] {
+        assert!(v[key].is_number(), "{key}: {v}");
+    }
+    // More deflection, less speed: a negative slope.
+    assert!(v["rpm_per_unit"].as_f64().unwrap() < 0.0);
+}
+
+#[test]
+fn two_targets_with_two_adjustments() {
+    // Issue 12: --rpm 30 --throw 11m --adjust deflection,nozzle; the design
+    // found gives both (its own solve and throw, to the search tolerance).
+    let file = scenario("lawn-rotor.ron");
+    let v = json(&[
+        "target",
+        file.to_str().unwrap(),
+        "--rpm",
+        "30",
+        "--throw",
+        "11m",
+        "--adjust",
+        "deflection,nozzle",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(v["reachable"], true, "{v}");
+    assert!(
+        (v["rpm"].as_f64().unwrap() / 30.0 - 1.0).abs() < 1e-3,
+        "{v}"
+    );
+    assert!(
+        (v["wetted_radius_m"].as_f64().unwrap() / 11.0 - 1.0).abs() < 1e-3,
+        "{v}"
+    );
+    assert_eq!(v["parameters"][1], "nozzle");
+    // One target for two inputs is refused.
+    bin()
+        .args([
+            "target",
+            file.to_str().unwrap(),
+            "--rpm",
+            "30",
+            "--adjust",
+            "deflection,nozzle",
+        ])
+        .assert()
+        .code(2);
 }
 
 #[test]
@@ -1250,7 +1551,9 @@ fn csv_and_text_honour_the_unit_system() {
         "sweep",
         f,
         "--vary",
-        "pressure=40psi:50psi:2",
+        "pressure=40psi..50psi",
+        "--points",
+        "2",
         "--format",
         "csv",
         "--units",

@@ -171,6 +171,8 @@ const MAY_BE_NULL: &[&str] = &[
     "measured",
     "overlap_cu_percent",
     "overlap_du_lq_percent",
+    "recommend_goal",
+    "recommended",
 ];
 
 fn no_hidden_nan(path: &str, key: &str, v: &serde_json::Value) -> Result<(), String> {

@@ -605,9 +605,17 @@ pub fn varied() -> impl Iterator<Item = &'static Input> {
     ALL.iter().copied().filter(|i| i.vary.is_some())
 }
 
-/// The input a sweep names `name` (case-insensitive).
+/// The input a sweep names `name` or one of its other names
+/// (case-insensitive; `brake` is the viscous brake).
 pub fn by_vary_name(name: &str) -> Option<&'static Input> {
-    varied().find(|i| i.vary.is_some_and(|v| v.name.eq_ignore_ascii_case(name)))
+    varied()
+        .find(|i| i.vary.is_some_and(|v| v.name.eq_ignore_ascii_case(name)))
+        .or_else(|| {
+            varied().find(|i| {
+                i.vary
+                    .is_some_and(|v| v.aliases.iter().any(|a| a.eq_ignore_ascii_case(name)))
+            })
+        })
 }
 
 /// The inputs a target search may adjust, in list order.

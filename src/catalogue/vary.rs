@@ -8,7 +8,7 @@
 //! every arm. The supply pressure and flow replace the supply when needed.
 
 use super::Input;
-use crate::physics::design::{Arm, Design, Supply};
+use crate::physics::design::{Arm, Design, Layout, Supply};
 
 /// How sweeps and target searches may vary an input.
 #[derive(Debug, Clone, Copy)]
@@ -49,6 +49,38 @@ pub enum How {
     SupplyPressure,
     /// The total flow: the supply becomes a fixed total flow.
     SupplyFlow,
+    /// The head spacing along a row of whichever layout the design has
+    /// (a rectangle keeps its rows).
+    LayoutSpacing,
+}
+
+impl Vary {
+    /// A whole-design input set as it is, that target searches do not adjust.
+    pub const fn field(name: &'static str, key: &'static str) -> Vary {
+        Vary {
+            name,
+            key,
+            how: How::Field,
+            search: None,
+            aliases: &[],
+        }
+    }
+
+    /// A per-arm input moved on all arms together by `rule`, that target
+    /// searches do not adjust.
+    pub const fn arms(name: &'static str, key: &'static str, rule: ArmRule) -> Vary {
+        Vary {
+            name,
+            key,
+            how: How::Arms {
+                rule,
+                check: None,
+                set: None,
+            },
+            search: None,
+            aliases: &[],
+        }
+    }
 }
 
 /// How a per-arm input takes a new mean value.
@@ -135,6 +167,7 @@ impl Input {
     pub fn varied_value(&self, design: &Design) -> Option<f64> {
         match self.vary.map(|v| v.how) {
             Some(How::Arms { .. }) => mean(&self.arm_values(design)),
+            Some(How::LayoutSpacing) => design.layout.map(|l| l.spacing_m()),
             Some(How::SupplyPressure) => match design.supply {
                 Supply::Pressure { inlet_pa } => Some(inlet_pa),
                 Supply::Line(line) => Some(line.source_pa),
@@ -165,6 +198,22 @@ impl Input {
                     other => *other = Supply::Pressure { inlet_pa: value },
                 }
                 Ok(())
+            }
+            How::LayoutSpacing => {
+                if let Some(reason) = self.range.refuses(value) {
+                    return Err(self.vary_error(value, reason));
+                }
+                match &mut design.layout {
+                    Some(
+                        Layout::Square { spacing_m }
+                        | Layout::Rectangle { spacing_m, .. }
+                        | Layout::Triangle { spacing_m },
+                    ) => {
+                        *spacing_m = value;
+                        Ok(())
+                    }
+                    None => Err(self.vary_error(value, "the design has no layout")),
+                }
             }
             How::SupplyFlow => {
                 if value <= 0.0 {

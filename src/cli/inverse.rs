@@ -10,7 +10,7 @@ use serde::Serialize;
 use super::text::{csv_number, sig, TextTable};
 use super::{
     load_design, positive_number, positive_quantity, positive_quantity_or_bare, positive_rpm,
-    quantity, CliError, Format, Outcome, Output,
+    quantity, CliError, Format, Outcome, Output, ShowArg,
 };
 use crate::catalogue::{self, Input};
 use crate::inverse::compare::{compare_with_coverage, Comparison, InputValue};
@@ -57,17 +57,51 @@ pub fn parameter_value(argument: &str, p: &Input, text: &str) -> Result<f64, Cli
     }
 }
 
-/// Parse `NAME=FROM:TO:STEPS`.
-pub fn parse_axis(text: &str) -> Result<SweepAxis, CliError> {
+/// Largest number of points along one sweep axis.
+pub const MAX_POINTS: usize = 100_000;
+
+/// Parse `--points N` or `--points N,M`: the points along each of `axes`
+/// axes (one number serves every axis).
+pub fn parse_points(text: &str, axes: usize) -> Result<Vec<usize>, CliError> {
+    let bad = |why: String| CliError::Usage(format!("--points {text}: {why}"));
+    let counts = text
+        .split(',')
+        .map(|t| {
+            t.trim()
+                .parse::<usize>()
+                .ok()
+                .filter(|n| (1..=MAX_POINTS).contains(n))
+                .ok_or_else(|| {
+                    bad(format!(
+                        "`{}` is not a whole number from 1 to {MAX_POINTS}",
+                        t.trim()
+                    ))
+                })
+        })
+        .collect::<Result<Vec<_>, _>>()?;
+    match (counts.as_slice(), axes) {
+        ([n], k) => Ok(vec![*n; k]),
+        (c, k) if c.len() == k => Ok(c.to_vec()),
+        (c, k) => Err(bad(format!(
+            "{} counts for {k} --vary axis{}; give one, or one per axis",
+            c.len(),
+            if k == 1 { "" } else { "es" }
+        ))),
+    }
+}
+
+/// Parse `NAME=FROM..TO` into an axis of `points` values. The old form
+/// `NAME=FROM:TO:STEPS` is refused with the new spelling in the message.
+pub fn parse_axis(text: &str, points: usize) -> Result<SweepAxis, CliError> {
     let bad = |why: &str| {
         CliError::Usage(format!(
-            "--vary {text}: {why} (write NAME=FROM:TO:STEPS, e.g. deflection=0:60:13)"
+            "--vary {text}: {why} (write NAME=FROM..TO, e.g. --vary deflection=0..60 --points 13)"
         ))
     };
     let (name, range) = text.split_once('=').ok_or_else(|| bad("no `=`"))?;
     let parameter = catalogue::by_vary_name(name.trim()).ok_or_else(|| {
         CliError::Usage(format!(
-            "--vary {text}: unknown parameter `{}`; known: {}",
+            "--vary {text}: unknown input `{}`; known: {}",
             name.trim(),
             catalogue::varied()
                 .map(|p| p.vary_name())
@@ -75,23 +109,71 @@ pub fn parse_axis(text: &str) -> Result<SweepAxis, CliError> {
                 .join(", ")
         ))
     })?;
-    let parts: Vec<&str> = range.split(':').collect();
-    let [from, to, steps] = parts.as_slice() else {
-        return Err(bad("expected three parts FROM:TO:STEPS"));
+    let Some((from, to)) = range.split_once("..") else {
+        let parts: Vec<&str> = range.split(':').collect();
+        if let [from, to, steps] = parts.as_slice() {
+            return Err(CliError::Usage(format!(
+                "--vary {text}: a range is now written FROM..TO with the number of points apart: \
+                 --vary {}={}..{} --points {}",
+                name.trim(),
+                from.trim(),
+                to.trim(),
+                steps.trim()
+            )));
+        }
+        return Err(bad("expected FROM..TO"));
     };
-    let steps: usize = steps
-        .trim()
-        .parse()
-        .map_err(|_| bad("STEPS is not a whole number"))?;
-    if steps == 0 || steps > 100_000 {
-        return Err(bad("STEPS must be 1 to 100000"));
+    if points == 0 || points > MAX_POINTS {
+        return Err(bad("the number of points must be 1 to 100000"));
     }
     Ok(SweepAxis {
         input: parameter,
         from: parameter_value("--vary", parameter, from)?,
         to: parameter_value("--vary", parameter, to)?,
-        steps,
+        steps: points,
     })
+}
+
+/// Labels for the values of one axis, all at one precision: the fewest
+/// decimals (up to 6) that tell neighbours apart and put every label within
+/// 1 % of a step of its value.
+pub fn axis_labels(values: &[f64]) -> Vec<String> {
+    let step = values
+        .windows(2)
+        .filter_map(|w| match w {
+            [a, b] => Some((b - a).abs()),
+            _ => None,
+        })
+        .filter(|d| *d > 0.0)
+        .fold(f64::INFINITY, f64::min);
+    let scale = values.iter().fold(0.0f64, |m, v| m.max(v.abs()));
+    let tolerance = if step.is_finite() {
+        0.01 * step
+    } else {
+        5e-4 * scale.max(1e-12)
+    };
+    let label = |v: f64, d: usize| {
+        let t = format!("{v:.d$}");
+        if t.trim_start_matches('-')
+            .chars()
+            .all(|c| c == '0' || c == '.')
+        {
+            t.trim_start_matches('-').to_string()
+        } else {
+            t
+        }
+    };
+    for d in 0..=6 {
+        let labels: Vec<String> = values.iter().map(|&v| label(v, d)).collect();
+        let close = values
+            .iter()
+            .zip(&labels)
+            .all(|(v, l)| l.parse::<f64>().is_ok_and(|x| (x - v).abs() <= tolerance));
+        if close {
+            return labels;
+        }
+    }
+    values.iter().map(|&v| label(v, 6)).collect()
 }
 
 /// How the rotation was read.
@@ -506,6 +588,77 @@ pub struct TargetArgs {
     pub adjust: String,
     /// Where to write the adjusted scenario.
     pub out: Option<PathBuf>,
+    /// Exit 1 when the target is out of reach.
+    pub strict: bool,
+}
+
+/// Start margin below which a target's result is warned of (common practice:
+/// a rotor that barely starts when new stops starting as it wears).
+pub const TARGET_MARGIN_WARNING: f64 = 1.5;
+
+/// What the adjusted design gives, and how touchy it is.
+#[derive(Debug, Clone, Default, Serialize)]
+struct Resulting {
+    rpm: Option<f64>,
+    wetted_radius_m: Option<f64>,
+    start_margin: Option<f64>,
+    total_flow_m3_s: Option<f64>,
+    /// rpm per SI unit of the adjusted value (central difference over a
+    /// tenth of the input's step).
+    rpm_per_unit: Option<f64>,
+    warnings: Vec<String>,
+}
+
+fn resulting(result: &TargetResult, units: UnitSystem) -> Resulting {
+    let report = &result.report;
+    let (rpm_op, margin, flow) = crate::inverse::sweep::summarize(report);
+    let adjust = result.adjust;
+    let h = 0.1 * adjust.step.fine;
+    let speed_at = |v: f64| {
+        let mut d = result.design.clone();
+        adjust.vary_to(&mut d, v).ok()?;
+        crate::physics::balance::solve_speed(&d)
+            .operating
+            .map(|op| crate::physics::balance::rpm(op.omega_rad_s()))
+    };
+    let (lo, hi) = (speed_at(result.value - h), speed_at(result.value + h));
+    let slope = match (lo, hi) {
+        (Some(a), Some(b)) if h > 0.0 => Some((b - a) / (2.0 * h)),
+        _ => None,
+    };
+    let mut warnings = Vec::new();
+    if let Some(m) = margin.filter(|m| *m < TARGET_MARGIN_WARNING) {
+        warnings.push(format!(
+            "start margin {m:.2} is below {TARGET_MARGIN_WARNING}: it may not start once worn"
+        ));
+    }
+    if let Some(base) = rpm_op.filter(|r| *r > 0.0) {
+        let worst = [lo, hi]
+            .into_iter()
+            .flatten()
+            .map(|r| (r - base).abs() / base)
+            .fold(0.0f64, f64::max);
+        let unreliable = lo.is_none() || hi.is_none();
+        if worst > 0.05 || unreliable {
+            warnings.push(format!(
+                "touchy: a tenth of a step ({}) moves the speed by {}",
+                show_adjust(adjust, h, units),
+                if unreliable {
+                    "so much the rotor stops or runs away".to_string()
+                } else {
+                    format!("{:.0} %", 100.0 * worst)
+                }
+            ));
+        }
+    }
+    Resulting {
+        rpm: rpm_op,
+        wetted_radius_m: throw_of(&result.design),
+        start_margin: margin,
+        total_flow_m3_s: flow,
+        rpm_per_unit: slope,
+        warnings,
+    }
 }
 
 #[derive(Debug, Serialize)]
@@ -519,6 +672,12 @@ struct TargetJson {
     #[serde(skip_serializing_if = "Option::is_none")]
     achieved_throw_m: Option<Option<f64>>,
     reachable: bool,
+    rpm: Option<f64>,
+    wetted_radius_m: Option<f64>,
+    start_margin: Option<f64>,
+    total_flow_m3_s: Option<f64>,
+    rpm_per_unit: Option<f64>,
+    warnings: Vec<String>,
     written_to: Option<String>,
 }
 
@@ -545,6 +704,9 @@ pub fn run_target(
     })?;
     let source = scenario::load_str(&original, &path.display().to_string())?;
     let design = source.to_design()?;
+    if let Some((first, second)) = args.adjust.split_once(',') {
+        return run_two_targets(&design, args, first.trim(), second.trim(), o, out);
+    }
     let adjust = catalogue::by_adjust_name(&args.adjust).ok_or_else(|| {
         CliError::Usage(format!(
             "--adjust {}: choose one of {}",
@@ -572,6 +734,7 @@ pub fn run_target(
     let result: TargetResult =
         target(&design, adjust, goal).map_err(|e| CliError::Usage(e.to_string()))?;
     let units: UnitSystem = o.units.into();
+    let res = resulting(&result, units);
     let written = match &args.out {
         Some(p) => {
             // The notes are the user's: kept as written. Only the adjusted
@@ -601,6 +764,12 @@ pub fn run_target(
                 achieved_rpm: rpm_goal.then_some(result.achieved),
                 achieved_throw_m: (!rpm_goal).then_some(result.achieved),
                 reachable: result.reachable,
+                rpm: res.rpm,
+                wetted_radius_m: res.wetted_radius_m,
+                start_margin: res.start_margin,
+                total_flow_m3_s: res.total_flow_m3_s,
+                rpm_per_unit: res.rpm_per_unit,
+                warnings: res.warnings.clone(),
                 written_to: written,
             };
             serde_json::to_writer_pretty(&mut *out, &j).map_err(std::io::Error::from)?;
@@ -686,12 +855,43 @@ pub fn run_target(
                     result.achieved.map_or("no running speed".into(), what)
                 )?;
             }
+            let opt = |v: Option<String>| v.unwrap_or_else(|| "—".into());
+            writeln!(
+                out,
+                "  then: {} · wetted radius {} · start margin {} · flow {}",
+                opt(res.rpm.map(|r| format!("{r:.1} rpm"))),
+                opt(res
+                    .wetted_radius_m
+                    .map(|r| format_quantity(D::Length, r, units))),
+                opt(res.start_margin.map(|m| format!("{m:.2}"))),
+                opt(res
+                    .total_flow_m3_s
+                    .map(|q| format_quantity(D::Flow, q, units))),
+            )?;
+            if let Some(k) = res.rpm_per_unit {
+                // rpm per display unit of the adjusted input.
+                let (per, unit) = match parameter_dimension(adjust) {
+                    Some(dim) => (
+                        k / to_display(dim, 1.0, units),
+                        unit_label(dim, units).to_string(),
+                    ),
+                    None => (k, adjust.unit.si_label().to_string()),
+                };
+                writeln!(out, "  sensitivity: {} rpm per {unit}", sig(Some(per), 3))?;
+            }
+            for w in &res.warnings {
+                writeln!(out, "  warning: {w}")?;
+            }
             if let Some(w) = written {
                 writeln!(out, "wrote the adjusted scenario to {w}")?;
             }
         }
     }
-    Ok(Outcome::Done)
+    Ok(if args.strict && !result.reachable {
+        Outcome::DesignProblem
+    } else {
+        Outcome::Done
+    })
 }
 
 /// Per-point extras of a sweep: wetted radius, and CU when a layout is rated.
@@ -701,19 +901,150 @@ struct Extra {
     cu_percent: Option<f64>,
 }
 
-/// Run `sweep`.
-pub fn run_sweep(
-    path: &Path,
-    vary: &[String],
-    with_layout: bool,
+fn adjustable(name: &str) -> Result<&'static Input, CliError> {
+    let name = if name == "brake" { "viscous" } else { name };
+    catalogue::by_adjust_name(name).ok_or_else(|| {
+        CliError::Usage(format!(
+            "--adjust {name}: choose from {}",
+            catalogue::adjustable()
+                .map(|a| a.vary_name())
+                .collect::<Vec<_>>()
+                .join(", ")
+        ))
+    })
+}
+
+/// `target --rpm R --throw L --adjust A,B`: A meets the throw, B the speed
+/// (a nested solve, model.md M10).
+fn run_two_targets(
+    design: &Design,
+    args: &TargetArgs,
+    first: &str,
+    second: &str,
     o: Output,
     out: &mut dyn Write,
 ) -> Result<Outcome, CliError> {
-    let design = load_design(path)?;
-    let axes = vary
+    let (Some(r), Some(t)) = (&args.rpm, &args.throw) else {
+        return Err(CliError::Usage(
+            "two inputs to adjust need two targets: --rpm 30 --throw 11m --adjust deflection,nozzle"
+                .into(),
+        ));
+    };
+    if args.out.is_some() || o.format == Format::Csv {
+        return Err(CliError::Usage(
+            "two targets report in text or JSON and write no scenario (adjust one at a time for --out or CSV)"
+                .into(),
+        ));
+    }
+    let rpm = positive_rpm("--rpm", r, "the wanted speed")?;
+    let throw_m = positive_quantity("--throw", D::Length, t, "the wanted wetted radius")?;
+    let (a, b) = (adjustable(first)?, adjustable(second)?);
+    if std::ptr::eq(a, b) {
+        return Err(CliError::Usage(format!(
+            "--adjust {first},{second}: two different inputs, one per target"
+        )));
+    }
+    let (outer, inner) = crate::inverse::target::target_two(design, a, b, rpm, throw_m, throw_of)
+        .map_err(|e| CliError::Usage(e.to_string()))?;
+    let units: UnitSystem = o.units.into();
+    let res = resulting(&inner, units);
+    let met = outer.reachable && inner.reachable;
+    match o.format {
+        Format::Json => {
+            let j = serde_json::json!({
+                "parameters": [a.vary_name(), b.vary_name()],
+                "values": [outer.value, inner.value],
+                "units": [outer.unit, inner.unit],
+                "start_values": [outer.start_value, inner.start_value],
+                "reachable": met,
+                "rpm": res.rpm,
+                "wetted_radius_m": res.wetted_radius_m,
+                "start_margin": res.start_margin,
+                "total_flow_m3_s": res.total_flow_m3_s,
+                "warnings": res.warnings,
+            });
+            serde_json::to_writer_pretty(&mut *out, &j).map_err(std::io::Error::from)?;
+            writeln!(out)?;
+        }
+        _ => {
+            let opt = |v: Option<String>| v.unwrap_or_else(|| "—".into());
+            writeln!(
+                out,
+                "{}: {} {} (was {}) and {} {} (was {}) {} {:.1} rpm and {}",
+                design.name,
+                a.vary_name(),
+                show_adjust(a, outer.value, units),
+                show_adjust(a, outer.start_value, units),
+                b.vary_name(),
+                show_adjust(b, inner.value, units),
+                show_adjust(b, inner.start_value, units),
+                if met { "give" } else { "come nearest to" },
+                rpm,
+                format_quantity(D::Length, throw_m, units),
+            )?;
+            writeln!(
+                out,
+                "  then: {} · wetted radius {} · start margin {} · flow {}",
+                opt(res.rpm.map(|r| format!("{r:.1} rpm"))),
+                opt(res
+                    .wetted_radius_m
+                    .map(|r| format_quantity(D::Length, r, units))),
+                opt(res.start_margin.map(|m| format!("{m:.2}"))),
+                opt(res
+                    .total_flow_m3_s
+                    .map(|q| format_quantity(D::Flow, q, units))),
+            )?;
+            for w in &res.warnings {
+                writeln!(out, "  warning: {w}")?;
+            }
+        }
+    }
+    Ok(if args.strict && !met {
+        Outcome::DesignProblem
+    } else {
+        Outcome::Done
+    })
+}
+
+/// Options of `sweep`.
+#[derive(Debug, Clone)]
+pub struct SweepArgs {
+    /// `--vary NAME=FROM..TO`, one or two.
+    pub vary: Vec<String>,
+    /// `--points N` or `N,M`.
+    pub points: String,
+    /// Rate the scenario's layout at each point.
+    pub layout: bool,
+    /// The figure of a two-axis grid.
+    pub show: Option<ShowArg>,
+}
+
+/// Run `sweep`.
+pub fn run_sweep(
+    path: &Path,
+    args: &SweepArgs,
+    o: Output,
+    out: &mut dyn Write,
+) -> Result<Outcome, CliError> {
+    let with_layout = args.layout;
+    let counts = parse_points(&args.points, args.vary.len())?;
+    let axes = args
+        .vary
         .iter()
-        .map(|v| parse_axis(v))
+        .zip(&counts)
+        .map(|(v, &n)| parse_axis(v, n))
         .collect::<Result<Vec<_>, _>>()?;
+    let show = args.show.unwrap_or(ShowArg::Rpm);
+    if args.show.is_some() && (axes.len() != 2 || o.format != Format::Text) {
+        return Err(CliError::Usage(
+            "--show picks the figure of a two-axis text grid; one axis, CSV and JSON show every figure"
+                .into(),
+        ));
+    }
+    if show == ShowArg::Cu && !with_layout {
+        return Err(CliError::Usage("--show cu needs --layout".into()));
+    }
+    let design = load_design(path)?;
     if with_layout && design.layout.is_none() {
         return Err(CliError::Usage(format!(
             "{}: --layout needs a layout in the scenario",
@@ -842,32 +1173,59 @@ pub fn run_sweep(
                 Some(dim) => format!("{} {}", a.input.vary_name(), unit_label(dim, units)),
                 None => a.input.vary_name().to_string(),
             };
-            let show = |a: &SweepAxis, v: f64| match parameter_dimension(a.input) {
-                Some(dim) => sig(Some(to_display(dim, v, units)), 4),
-                None => sig(Some(v), 4),
+            let labels = |a: &SweepAxis| {
+                let shown: Vec<f64> = a
+                    .values()
+                    .iter()
+                    .map(|&v| match parameter_dimension(a.input) {
+                        Some(dim) => to_display(dim, v, units),
+                        None => v,
+                    })
+                    .collect();
+                axis_labels(&shown)
             };
             writeln!(out, "{}: {} points", design.name, result.rows.len())?;
             if let [a, b] = axes.as_slice() {
-                // A grid of rpm: first axis down, second across.
+                // A grid of the chosen figure: first axis down, second across.
+                let title = match show {
+                    ShowArg::Rpm => "rpm".to_string(),
+                    ShowArg::Throw => format!("wetted radius {}", unit_label(D::Length, units)),
+                    ShowArg::Cu => "CU %".to_string(),
+                    ShowArg::Flow => format!("flow {}", unit_label(D::Flow, units)),
+                    ShowArg::Margin => "start margin".to_string(),
+                };
                 let mut t = TextTable::new(
-                    std::iter::once(format!("rpm: {} \\ {}", head(a), head(b)))
-                        .chain(b.values().iter().map(|v| show(b, *v))),
+                    std::iter::once(format!("{title}: {} \\ {}", head(a), head(b)))
+                        .chain(labels(b)),
                 );
-                for (i, va) in a.values().iter().enumerate() {
-                    let cells = result
-                        .rows
-                        .iter()
-                        .skip(i * b.steps)
-                        .take(b.steps)
-                        .map(|r| match r.rpm {
-                            Some(x) => format!("{x:.0}"),
-                            None => match r.status.key() {
-                                "stalls_at_rest" => "stall".into(),
-                                "no_equilibrium" => "none".into(),
-                                _ => "bad".into(),
-                            },
-                        });
-                    t.row(std::iter::once(show(a, *va)).chain(cells));
+                let status_word = |r: &crate::inverse::sweep::SweepRow<Extra>| match r.status.key()
+                {
+                    "stalls_at_rest" => "stall".to_string(),
+                    "no_equilibrium" => "none".to_string(),
+                    "invalid" => "bad".to_string(),
+                    _ => "–".to_string(),
+                };
+                for (i, la) in labels(a).into_iter().enumerate() {
+                    let cells = result.rows.iter().skip(i * b.steps).take(b.steps).map(|r| {
+                        let e = r.extra.unwrap_or_default();
+                        let figure = match show {
+                            ShowArg::Rpm => r.rpm.map(|x| format!("{x:.0}")),
+                            ShowArg::Throw => e
+                                .wetted_radius_m
+                                .map(|x| sig(Some(to_display(D::Length, x, units)), 3)),
+                            ShowArg::Cu => e.cu_percent.map(|x| format!("{x:.1}")),
+                            ShowArg::Flow => r
+                                .total_flow_m3_s
+                                .map(|x| sig(Some(to_display(D::Flow, x, units)), 3)),
+                            ShowArg::Margin => r.start_margin.map(|x| format!("{x:.2}")),
+                        };
+                        match (figure, r.status.key()) {
+                            (Some(f), "running") => f,
+                            (Some(f), _) if show != ShowArg::Rpm => f,
+                            _ => status_word(r),
+                        }
+                    });
+                    t.row(std::iter::once(la).chain(cells));
                 }
                 write!(out, "{}", t.render(0))?;
                 writeln!(
@@ -887,12 +1245,12 @@ pub fn run_sweep(
                     headers.push("CU %".into());
                 }
                 let mut t = TextTable::new(headers);
-                for row in &result.rows {
+                let axis_labels: Vec<Vec<String>> = axes.iter().map(labels).collect();
+                for (k, row) in result.rows.iter().enumerate() {
                     let e = row.extra.unwrap_or_default();
-                    let mut cells: Vec<String> = axes
+                    let mut cells: Vec<String> = axis_labels
                         .iter()
-                        .zip(&row.values)
-                        .map(|(a, v)| show(a, *v))
+                        .map(|l| l.get(k).cloned().unwrap_or_default())
                         .collect();
                     cells.extend([
                         row.status.key().replace('_', " "),
@@ -1167,6 +1525,22 @@ impl ShownResult {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn axis_labels_share_one_precision() {
+        assert_eq!(axis_labels(&[0.0, 10.0, 20.0]), vec!["0", "10", "20"]);
+        assert_eq!(
+            axis_labels(&[150.0, 150.0 + 250.0 / 3.0, 150.0 + 500.0 / 3.0, 400.0]),
+            vec!["150", "233", "317", "400"]
+        );
+        assert_eq!(axis_labels(&[0.0, 0.25, 0.5]), vec!["0.00", "0.25", "0.50"]);
+        assert_eq!(axis_labels(&[-0.1, 0.0, 0.1]), vec!["-0.1", "0.0", "0.1"]);
+        assert_eq!(parse_points("13,6", 2).unwrap(), vec![13, 6]);
+        assert_eq!(parse_points("7", 2).unwrap(), vec![7, 7]);
+        assert!(parse_points("0", 1).is_err());
+        assert!(parse_points("3,4", 1).is_err());
+        assert!(parse_points("x", 1).is_err());
+    }
 
     #[test]
     fn compared_names_lose_their_si_suffix_only() {

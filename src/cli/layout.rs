@@ -8,17 +8,20 @@ use std::path::Path;
 use serde::Serialize;
 
 use super::text::csv_number;
+use super::PatternArg;
 use super::{load_design, CliError, Format, Outcome, Output};
 use crate::audit::{
     audit, interpret, leg_pattern, read_catch_cans, AuditReport, CanNote, CatchSet, ModelSide,
 };
 use crate::inverse::leg::{fit_leg, LegFit};
 use crate::physics::balance::solve;
-use crate::physics::coverage::{flight_env, head_throw, layout_overlap, HeadThrow};
+use crate::physics::coverage::{
+    flight_env, head_throw, layout_overlap, recommend_spacings, HeadThrow, SpacingRecommendation,
+};
 use crate::physics::design::{Design, Layout};
 use crate::physics::layout::{
-    intake_check, pattern_name, IntakeVerdict, LayoutResult, OverlapOptions,
-    DEFAULT_SURFACE_STORAGE_MM,
+    intake_check, pattern_name, IntakeVerdict, LayoutResult, OverlapOptions, PatternFamily,
+    RowRule, SpacingGoal, DEFAULT_ROWS_RATIO, DEFAULT_SURFACE_STORAGE_MM,
 };
 use crate::physics::pattern::{PatternOptions, M_S_TO_MM_H};
 use crate::rate_map::{self, runtime_factor_words, Ink, RateMap};
@@ -45,6 +48,140 @@ pub struct LayoutArgs {
     pub width: usize,
     /// Colour the text rate map (24-bit terminal colours).
     pub colour: bool,
+    /// Recommend spacings (`--recommend`).
+    pub recommend: Option<RecommendArgs>,
+}
+
+/// Options of `layout --recommend`.
+#[derive(Debug, Clone, Copy)]
+pub struct RecommendArgs {
+    /// The uniformity goal.
+    pub goal: SpacingGoal,
+    /// Only this pattern (all three when `None`).
+    pub pattern: Option<PatternArg>,
+    /// The rectangle's row spacing, m (`None`: 1.15 × the head spacing).
+    pub rows_m: Option<f64>,
+}
+
+impl RecommendArgs {
+    /// The pattern families to recommend a spacing for.
+    pub fn families(&self) -> Vec<PatternFamily> {
+        let rect = PatternFamily::Rectangle(match self.rows_m {
+            Some(l) => RowRule::Fixed(l),
+            None => RowRule::Ratio(DEFAULT_ROWS_RATIO),
+        });
+        match self.pattern {
+            Some(PatternArg::Square) => vec![PatternFamily::Square],
+            Some(PatternArg::Rectangle) => vec![rect],
+            Some(PatternArg::Triangle) => vec![PatternFamily::Triangle],
+            None => vec![PatternFamily::Square, rect, PatternFamily::Triangle],
+        }
+    }
+}
+
+#[derive(Debug, Serialize)]
+struct RecommendedJson {
+    pattern: &'static str,
+    spacing_m: Option<f64>,
+    rows_m: Option<f64>,
+    cu_percent: Option<f64>,
+    du_lq_percent: Option<f64>,
+    wind_m_s: f64,
+    goal_met: bool,
+}
+
+#[derive(Debug, Serialize)]
+struct GoalJson {
+    metric: &'static str,
+    percent: f64,
+}
+
+#[derive(Debug, Serialize)]
+struct RecommendOnlyJson {
+    wetted_radius_m: f64,
+    recommend_goal: GoalJson,
+    recommended: Vec<RecommendedJson>,
+}
+
+fn family_name(f: &PatternFamily) -> &'static str {
+    match f {
+        PatternFamily::Square => "square",
+        PatternFamily::Rectangle(_) => "rectangle",
+        PatternFamily::Triangle => "triangle",
+    }
+}
+
+fn goal_json(goal: SpacingGoal) -> GoalJson {
+    GoalJson {
+        metric: match goal {
+            SpacingGoal::Cu(_) => "cu",
+            SpacingGoal::DuLq(_) => "du_lq",
+        },
+        percent: goal.percent(),
+    }
+}
+
+fn recommended_json(r: &SpacingRecommendation) -> RecommendedJson {
+    let res = r.result.as_ref();
+    RecommendedJson {
+        pattern: family_name(&r.family),
+        spacing_m: res.map(|x| x.spacing_m),
+        rows_m: res.map(|x| x.rows_m),
+        cu_percent: res.map(|x| x.uniformity.cu_percent),
+        du_lq_percent: res.map(|x| x.uniformity.du_lq_percent),
+        wind_m_s: r.wind_m_s,
+        goal_met: res.is_some(),
+    }
+}
+
+/// The recommended spacings in words, in the reader's units.
+pub fn recommend_text(
+    recs: &[SpacingRecommendation],
+    goal: SpacingGoal,
+    units: UnitSystem,
+) -> String {
+    let q = |dim, v| format_quantity(dim, v, units);
+    let what = match goal {
+        SpacingGoal::Cu(p) => format!("CU at least {p:.0} %"),
+        SpacingGoal::DuLq(p) => format!("DU low quarter at least {p:.0} %"),
+    };
+    let mut s = format!(
+        "Recommended spacing ({what}, the largest with every closer spacing meeting it too)
+"
+    );
+    let mut last_wind = None;
+    for r in recs {
+        if last_wind != Some(r.wind_m_s) {
+            if r.wind_m_s > 0.0 {
+                s.push_str(&format!(
+                    "  in a wind of {}:
+",
+                    q(D::Speed, r.wind_m_s)
+                ));
+            } else {
+                s.push_str(
+                    "  in calm air:
+",
+                );
+            }
+            last_wind = Some(r.wind_m_s);
+        }
+        match &r.result {
+            Some(x) => s.push_str(&format!(
+                "    {:<9} {} × {}   CU {:.1} %   DU low quarter {:.1} %\n",
+                family_name(&r.family),
+                q(D::Length, x.spacing_m),
+                q(D::Length, x.rows_m),
+                x.uniformity.cu_percent,
+                x.uniformity.du_lq_percent
+            )),
+            None => s.push_str(&format!(
+                "    {:<9} no spacing meets the goal, even heads close together\n",
+                family_name(&r.family)
+            )),
+        }
+    }
+    s
 }
 
 #[derive(Debug, Serialize)]
@@ -67,6 +204,8 @@ struct LayoutJson {
     intake_warning: Option<String>,
     target: Option<TargetJson>,
     measured: Option<MeasuredJson>,
+    recommend_goal: Option<GoalJson>,
+    recommended: Option<Vec<RecommendedJson>>,
 }
 
 #[derive(Debug, Serialize)]
@@ -433,6 +572,7 @@ pub fn run(
         // The CSV is the depth grid alone: an option it cannot show is refused,
         // not dropped.
         let dropped: Vec<&str> = [
+            args.recommend.map(|_| "--recommend"),
             args.intake_mm_h.map(|_| "--intake"),
             args.catch_cans.as_ref().map(|_| "--catch-cans"),
         ]
@@ -447,18 +587,61 @@ pub fn run(
         }
     }
     let design = load_design(path)?;
-    let layout = args.layout.or(design.layout).ok_or_else(|| {
-        CliError::Usage(format!(
-            "{}: the scenario has no layout; add one (layout: Square(spacing: m(9))) or give --spacing",
+    let layout = args.layout.or(design.layout);
+    if layout.is_none() && args.recommend.is_none() {
+        return Err(CliError::Usage(format!(
+            "{}: the scenario has no layout; add one (layout: Square(spacing: m(9))), give --spacing, or ask for --recommend",
             path.display()
-        ))
-    })?;
+        )));
+    }
     let report = solve(&design);
     let opts = PatternOptions::default();
     let bad = |e: crate::physics::trajectory::ThrowError| {
         CliError::Usage(format!("{}: {e}", path.display()))
     };
     let head = head_throw(&design, &report, &opts, None).map_err(bad)?;
+    let units: UnitSystem = o.units.into();
+    let recommended = match &args.recommend {
+        Some(r) => Some(
+            recommend_spacings(
+                &design,
+                &head,
+                &r.families(),
+                r.goal,
+                &opts,
+                &OverlapOptions::default(),
+            )
+            .map_err(bad)?,
+        ),
+        None => None,
+    };
+    let Some(layout) = layout else {
+        // --recommend on a scenario without a layout: the recommendation alone.
+        let (Some(r), Some(recs)) = (&args.recommend, &recommended) else {
+            return Ok(Outcome::Done);
+        };
+        match o.format {
+            Format::Json => {
+                let json = RecommendOnlyJson {
+                    wetted_radius_m: head.throw.wetted_radius_m,
+                    recommend_goal: goal_json(r.goal),
+                    recommended: recs.iter().map(recommended_json).collect(),
+                };
+                serde_json::to_writer_pretty(&mut *out, &json).map_err(std::io::Error::from)?;
+                writeln!(out)?;
+            }
+            _ => {
+                writeln!(
+                    out,
+                    "{}: {} wetted radius",
+                    design.name,
+                    format_quantity(D::Length, head.throw.wetted_radius_m, units)
+                )?;
+                write!(out, "{}", recommend_text(recs, r.goal, units))?;
+            }
+        }
+        return Ok(Outcome::Done);
+    };
     let result =
         layout_overlap(&design, &head, &layout, &opts, &OverlapOptions::default()).map_err(bad)?;
     let (warning, cycle_soak) = intake_warning(&result, args.intake_mm_h)?;
@@ -481,7 +664,6 @@ pub fn run(
         )?),
         None => None,
     };
-    let units: UnitSystem = o.units.into();
     match o.format {
         Format::Json => {
             let u = &result.uniformity;
@@ -514,6 +696,10 @@ pub fn run(
                     soak_s: d.soak_min.map(|m| 60.0 * m),
                 }),
                 measured: measured.as_ref().map(measured_json),
+                recommend_goal: args.recommend.map(|r| goal_json(r.goal)),
+                recommended: recommended
+                    .as_ref()
+                    .map(|recs| recs.iter().map(recommended_json).collect()),
             };
             serde_json::to_writer_pretty(&mut *out, &json).map_err(std::io::Error::from)?;
             writeln!(out)?;
@@ -568,6 +754,10 @@ pub fn run(
                 if let Some((f, l)) = &m.fit {
                     write!(out, "{}", cans::fit_text(f, l, units))?;
                 }
+            }
+            if let (Some(r), Some(recs)) = (&args.recommend, &recommended) {
+                writeln!(out)?;
+                write!(out, "{}", recommend_text(recs, r.goal, units))?;
             }
         }
     }

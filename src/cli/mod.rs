@@ -105,6 +105,20 @@ pub enum Command {
         /// Depth the driest quarter should get each watering (e.g. 12mm, 0.5in): the run time and cycles for it.
         #[arg(long, value_name = "DEPTH")]
         target_depth: Option<String>,
+        /// Recommend the largest spacing of each pattern meeting the goal (--cu, default 85 %, or --du), in calm air and in the scenario's wind.
+        #[arg(long)]
+        recommend: bool,
+        /// CU goal of --recommend, % (e.g. 85).
+        #[arg(
+            long,
+            requires = "recommend",
+            conflicts_with = "du",
+            value_name = "PERCENT"
+        )]
+        cu: Option<String>,
+        /// Low-quarter DU goal of --recommend, % (e.g. 75).
+        #[arg(long, requires = "recommend", value_name = "PERCENT")]
+        du: Option<String>,
         /// Format and units of the report.
         #[command(flatten)]
         out: Output,
@@ -200,26 +214,35 @@ pub enum Command {
         /// Wanted wetted radius (e.g. 8m).
         #[arg(long, allow_hyphen_values = true)]
         throw: Option<String>,
-        /// What to adjust: deflection, elevation, radius, nozzle, viscous, quadratic (brake: viscous).
+        /// What to adjust: deflection, elevation, radius, nozzle, viscous, quadratic (brake: viscous); two, comma-separated (A,B), with --rpm and --throw: A for the throw, B for the speed.
         #[arg(long)]
         adjust: String,
         /// Write the adjusted scenario here (an existing file is kept as .bak).
         #[arg(long)]
         out: Option<PathBuf>,
+        /// Exit with status 1 when nothing in the range meets the target.
+        #[arg(long)]
+        strict: bool,
         /// Format and units of the report.
         #[command(flatten)]
         output: Output,
     },
-    /// Sweep one or two parameters: --vary NAME=FROM:TO:STEPS.
+    /// Sweep one or two design inputs: --vary NAME=FROM..TO --points N.
     Sweep {
         /// The scenario file.
         file: PathBuf,
-        /// A parameter and its range, e.g. deflection=0:60:13 or pressure=150kPa:400kPa:6.
-        #[arg(long, required = true)]
+        /// An input and its range, e.g. deflection=0..60 or pressure=150kPa..400kPa (any catalogue input).
+        #[arg(long, required = true, allow_hyphen_values = true)]
         vary: Vec<String>,
+        /// Points along each axis, both ends included: N, or N,M for two axes (default 11).
+        #[arg(long, default_value = "11")]
+        points: String,
         /// Also rate the scenario's layout at each point (CU).
         #[arg(long)]
         layout: bool,
+        /// What a two-axis grid shows (default rpm).
+        #[arg(long, value_enum)]
+        show: Option<ShowArg>,
         /// Format and units of the report.
         #[command(flatten)]
         out: Output,
@@ -268,6 +291,21 @@ pub struct Output {
     /// Unit system for text and CSV (JSON is always SI with the unit in each key).
     #[arg(long, value_enum, default_value_t = Units::Metric)]
     pub units: Units,
+}
+
+/// The figure a two-axis sweep grid shows.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum ShowArg {
+    /// Operating speed, rpm.
+    Rpm,
+    /// Wetted radius.
+    Throw,
+    /// CU on the scenario's layout, % (needs --layout).
+    Cu,
+    /// Total flow.
+    Flow,
+    /// Start margin (stall over breakaway torque).
+    Margin,
 }
 
 /// Layout patterns on the command line.
@@ -421,8 +459,37 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             fit,
             fit_d50,
             target_depth,
+            recommend,
+            cu,
+            du,
             out: o,
         } => {
+            let recommend = if recommend {
+                Some(layout::RecommendArgs {
+                    goal: spacing_goal(cu.as_deref(), du.as_deref())?,
+                    pattern,
+                    rows_m: rows
+                        .as_deref()
+                        .map(|r| {
+                            positive_quantity(
+                                "--rows",
+                                crate::units::Dimension::Length,
+                                r,
+                                "a spacing",
+                            )
+                        })
+                        .transpose()?,
+                })
+            } else {
+                None
+            };
+            // With --recommend and no --spacing, --pattern and --rows shape
+            // the recommendation alone.
+            let (pattern, rows) = if recommend.is_some() && spacing.is_none() {
+                (None, None)
+            } else {
+                (pattern, rows)
+            };
             let target_depth_mm = match target_depth {
                 Some(t) => {
                     let m = quantity("--target-depth", crate::units::Dimension::SmallLength, &t)?;
@@ -454,6 +521,7 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
                 target_depth_mm,
                 width: layout::terminal_width(),
                 colour: layout::colour_wanted(),
+                recommend,
             };
             layout::run(&file, &args, o, out)
         }
@@ -529,6 +597,7 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             throw,
             adjust,
             out: written,
+            strict,
             output,
         } => {
             let adjust = if adjust == "brake" {
@@ -541,15 +610,28 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
                 throw,
                 adjust,
                 out: written,
+                strict,
             };
             inverse::run_target(&file, &args, output, out)
         }
         Command::Sweep {
             file,
             vary,
+            points,
             layout,
+            show,
             out: o,
-        } => inverse::run_sweep(&file, &vary, layout, o, out),
+        } => inverse::run_sweep(
+            &file,
+            &inverse::SweepArgs {
+                vary,
+                points,
+                layout,
+                show,
+            },
+            o,
+            out,
+        ),
         Command::Compare { files, out: o } => inverse::run_compare(&files, o, out),
         Command::Report {
             file,
@@ -638,6 +720,29 @@ fn must_be_positive(argument: &str, text: &str, what: &str, v: f64) -> Result<f6
     } else {
         Ok(v)
     }
+}
+
+/// The uniformity goal of `layout --recommend`: `--cu` or `--du` in %,
+/// CU 85 % when neither is given.
+fn spacing_goal(
+    cu: Option<&str>,
+    du: Option<&str>,
+) -> Result<crate::physics::layout::SpacingGoal, CliError> {
+    use crate::physics::layout::SpacingGoal;
+    let percent = |arg: &str, text: &str| -> Result<f64, CliError> {
+        let t = text.trim().trim_end_matches('%').trim();
+        match t.parse::<f64>() {
+            Ok(v) if v.is_finite() && v > 0.0 && v <= 100.0 => Ok(v),
+            _ => Err(CliError::Usage(format!(
+                "{arg} {text}: a goal in percent above 0 and at most 100 (e.g. {arg} 85)"
+            ))),
+        }
+    };
+    Ok(match (cu, du) {
+        (_, Some(d)) => SpacingGoal::DuLq(percent("--du", d)?),
+        (Some(c), None) => SpacingGoal::Cu(percent("--cu", c)?),
+        (None, None) => SpacingGoal::Cu(85.0),
+    })
 }
 
 fn layout_override(

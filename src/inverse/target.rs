@@ -2,12 +2,18 @@
 //! (or, through a caller's closure, a wanted wetted radius), the rest fixed.
 //!
 //! The search runs on the full model: the parameter's physical range is
-//! scanned on a grid (solving the design at every point, in parallel), each
-//! sign change of `result − target` is polished with Brent's method, and the
-//! root nearest the design's present value is taken. When no grid interval
-//! brackets the target, the best grid point is refined by a golden-section
-//! search on |result − target| and returned flagged *unreachable*, with the
-//! result it gives.
+//! scanned on a grid with the design's present value added to it (solving
+//! the design at every point, in parallel). From the present value the
+//! search walks outward, up and down, to the first grid interval each way
+//! where `result − target` changes sign (a rotor that stalls counts as 0 rpm,
+//! one with no equilibrium as faster than any target, so the sign is known
+//! where the speed ends), polishes it with Brent's method and keeps it if
+//! the polished value meets the target (a jump in the speed, such as a
+//! stall, is not a root; the walk goes on past it). Of the two ways, the
+//! value nearer the present one wins: the branch continuous with the
+//! design. When nothing in the range meets the target, the best grid point
+//! is refined by a golden-section search on |result − target| and returned
+//! flagged *unreachable*, with the result it gives.
 //!
 //! The inputs a search may adjust, and the physical range each one scans, are
 //! the catalogue entries with a [`Search`] (see `catalogue::entries`): per-arm
@@ -22,7 +28,7 @@ use rayon::prelude::*;
 
 use crate::catalogue::{Input, Search, VaryError};
 use crate::numeric::root::{brent, RootError, Tolerance};
-use crate::physics::balance::{rad_s, rpm, solve, solve_speed, SpinReport};
+use crate::physics::balance::{rad_s, rpm, solve, solve_speed, SpinReport, SpinStatus};
 use crate::physics::design::Design;
 pub use crate::physics::ThrowFn;
 
@@ -144,6 +150,25 @@ impl Goal<'_> {
         }
     }
 
+    /// result − target with the speed ended by a stall counted as 0 rpm and a
+    /// rotor with no equilibrium counted as far above any target (rpm goal);
+    /// the wetted radius − target (throw goal). None when there is nothing
+    /// to sign.
+    fn signed(&self, design: &Design, want: f64) -> Option<f64> {
+        match self {
+            Goal::Rpm(_) => {
+                let r = solve_speed(design);
+                match (r.status, r.operating) {
+                    (_, Some(op)) => Some(rpm(op.omega_rad_s()) - want).filter(|g| g.is_finite()),
+                    (SpinStatus::StallsAtRest, None) => Some(-want),
+                    (SpinStatus::NoEquilibrium, None) => Some(1e3 * want),
+                    (SpinStatus::Running, None) => None,
+                }
+            }
+            Goal::Throw { .. } => self.metric(design).map(|m| m - want),
+        }
+    }
+
     /// The report key of the achieved value: `achieved_rpm` or `achieved_throw_m`.
     pub fn achieved_key(&self) -> &'static str {
         match self {
@@ -233,58 +258,99 @@ pub fn target(
     with(range.0)?;
     with(range.1)?;
     let eval = |v: f64| with(v).ok().and_then(|d| goal.metric(&d));
+    // For the bracket scan a stalled rotor counts as 0 rpm and one with no
+    // equilibrium as running away (above any target): the sign of
+    // result − target stays known where the speed ends.
+    let signed = |v: f64| with(v).ok().and_then(|d| goal.signed(&d, want));
 
-    let grid = grid(search, range);
-    let scan: Vec<Option<f64>> = grid.par_iter().map(|&v| eval(v)).collect();
-
-    // Every bracketed crossing, polished by Brent.
-    let mut roots = Vec::new();
-    let mut search_error = None;
-    for ((v0, m0), (v1, m1)) in grid.iter().zip(&scan).zip(grid.iter().zip(&scan).skip(1)) {
-        let (Some(m0), Some(m1)) = (m0, m1) else {
-            continue;
-        };
-        let (g0, g1) = (m0 - want, m1 - want);
-        if g0 == 0.0 {
-            roots.push(*v0);
-            continue;
-        }
-        if g0.signum() == g1.signum() || g1 == 0.0 {
-            continue;
-        }
-        let tol = Tolerance {
-            x: 1e-13 * (range.1 - range.0),
-            f: GOAL_TOLERANCE * want,
-            max_iter: 200,
-        };
-        // A trial that gives no result inside the bracket cannot be signed;
-        // push Brent back toward the end it came from.
-        let f = |v: f64| eval(v).map_or(g0, |m| m - want);
-        match brent(f, *v0, *v1, tol) {
-            Ok(v) => roots.push(v),
-            Err(e) => search_error = Some(e),
+    // The grid with the present value in it, so the walk starts there.
+    let mut grid = grid(search, range);
+    if let Some(k) = grid.iter().position(|&g| g >= start_value) {
+        if grid.get(k).is_some_and(|&g| g != start_value) {
+            grid.insert(k, start_value);
         }
     }
-    if let Some((v, Some(m))) = grid.last().zip(scan.last()) {
-        if m - want == 0.0 {
-            roots.push(*v);
-        }
-    }
-
-    let nearest_root = roots
+    let scan: Vec<Option<f64>> = grid.par_iter().map(|&v| signed(v)).collect();
+    let start = grid
         .iter()
-        .copied()
-        .filter_map(|v| eval(v).map(|m| (v, m)))
-        .filter(|(_, m)| ((m - want) / want).abs() <= 1e3 * GOAL_TOLERANCE)
-        .min_by(|a, b| {
-            (a.0 - start_value)
-                .abs()
-                .total_cmp(&(b.0 - start_value).abs())
-        });
+        .position(|&g| g == start_value)
+        .unwrap_or_default();
+
+    // Walk outward from the present value, each way, to the first interval
+    // that brackets the target and polishes to a value that meets it.
+    let mut search_error = None;
+    let meets = |v: f64| {
+        eval(v)
+            .filter(|m| ((m - want) / want).abs() <= 1e3 * GOAL_TOLERANCE)
+            .map(|m| (v, m))
+    };
+    let mut walk = |steps: &mut dyn Iterator<Item = (usize, usize)>| -> Option<(f64, f64)> {
+        for (i, j) in steps {
+            let (Some(&v0), Some(&v1)) = (grid.get(i), grid.get(j)) else {
+                continue;
+            };
+            let (Some(Some(g0)), Some(Some(g1))) = (scan.get(i), scan.get(j)) else {
+                continue;
+            };
+            let (g0, g1) = (*g0, *g1);
+            if g0 == 0.0 {
+                if let Some(hit) = meets(v0) {
+                    return Some(hit);
+                }
+                continue;
+            }
+            if g1 == 0.0 {
+                if let Some(hit) = meets(v1) {
+                    return Some(hit);
+                }
+                continue;
+            }
+            if g0.signum() == g1.signum() {
+                continue;
+            }
+            let tol = Tolerance {
+                x: 1e-13 * (range.1 - range.0),
+                f: GOAL_TOLERANCE * want,
+                max_iter: 200,
+            };
+            // A trial that cannot be signed (a refused value) is pushed back
+            // toward the end Brent came from.
+            let f = |v: f64| signed(v).unwrap_or(g0);
+            match brent(f, v0, v1, tol) {
+                Ok(v) => {
+                    // A jump in the speed (it stalls, or cannot run slower)
+                    // is not a root: walk on.
+                    if let Some(hit) = meets(v) {
+                        return Some(hit);
+                    }
+                }
+                Err(e) => search_error = Some(e),
+            }
+        }
+        None
+    };
+    let n = grid.len();
+    let up = walk(&mut (start..n.saturating_sub(1)).map(|i| (i, i + 1)));
+    let down = walk(&mut (1..=start).rev().map(|i| (i, i - 1)));
+    let nearest_root = match (up, down) {
+        (Some(u), Some(d)) => {
+            if (d.0 - start_value).abs() < (u.0 - start_value).abs() {
+                Some(d)
+            } else {
+                Some(u)
+            }
+        }
+        (u, d) => u.or(d),
+    };
 
     let (value, achieved, reachable) = match nearest_root {
         Some((v, m)) => (v, Some(m), true),
-        None => match closest_point(&grid, &scan, want, &eval) {
+        None => match closest_point(
+            &grid,
+            &grid.par_iter().map(|&v| eval(v)).collect::<Vec<_>>(),
+            want,
+            &eval,
+        ) {
             Some((v, m)) => (v, Some(m), false),
             None => (start_value, None, false),
         },
@@ -304,6 +370,40 @@ pub fn target(
         report,
         search_error,
     })
+}
+
+/// Two targets, a speed and a wetted radius, met by two inputs: a nested
+/// 1-D solve on the full model (model.md M10). For each trial value of
+/// `for_throw`, `for_rpm` is set by [`target`] to give `rpm`; the outer
+/// [`target`] on `for_throw` then meets `throw_m` with the throw of that
+/// inner design. Returns the outer result (its design has `for_throw` set)
+/// and the inner one on it (its design has both set: the answer).
+pub fn target_two(
+    design: &Design,
+    for_throw: &'static Input,
+    for_rpm: &'static Input,
+    rpm: f64,
+    throw_m: f64,
+    throw: fn(&Design) -> Option<f64>,
+) -> Result<(TargetResult, TargetResult), TargetError> {
+    let throw_at = move |d: &Design| -> Option<f64> {
+        let r = target(d, for_rpm, Goal::Rpm(rpm)).ok()?;
+        if r.reachable {
+            throw(&r.design)
+        } else {
+            None
+        }
+    };
+    let outer = target(
+        design,
+        for_throw,
+        Goal::Throw {
+            radius_m: throw_m,
+            throw: &throw_at,
+        },
+    )?;
+    let last = target(&outer.design, for_rpm, Goal::Rpm(rpm))?;
+    Ok((outer, last))
 }
 
 /// The grid point nearest the target, refined by golden section between its
@@ -387,6 +487,28 @@ mod tests {
             r.value.to_degrees()
         );
         assert!(achieved >= rpm_of(&d));
+    }
+
+    #[test]
+    fn of_two_branches_the_nearer_is_taken() {
+        // Speed depends on the deflection through cos δ (drive torque
+        // ∝ W cos δ, model.md M2), so a speed below the present one is met at
+        // +δ* and at −δ*: a design at +10° gets +δ*, one at −10° gets −δ*.
+        for sign in [1.0, -1.0] {
+            let mut d = three_arm_rotor();
+            for arm in &mut d.rotor.arms {
+                arm.nozzle.deflection_rad = sign * 10f64.to_radians();
+            }
+            let want = 0.5 * rpm_of(&d);
+            let r = target(&d, &DEFLECTION, Goal::Rpm(want)).unwrap();
+            assert!(r.reachable, "{r:?}");
+            assert!(
+                r.value * sign > 10f64.to_radians(),
+                "{}",
+                r.value.to_degrees()
+            );
+            assert!(((rpm_of(&r.design) - want) / want).abs() < 1e-3);
+        }
     }
 
     #[test]

@@ -9,7 +9,10 @@
 use super::balance::{SpinModel, SpinReport, SpinStatus};
 use super::design::{Design, Layout, SpraySpec};
 use super::jet::JetExit;
-use super::layout::{overlap, HeadPattern, LayoutResult, OverlapOptions};
+use super::layout::{
+    overlap, recommend_spacing, HeadPattern, LayoutResult, OverlapOptions, PatternFamily,
+    SpacingGoal,
+};
 use super::pattern::{
     radial_pattern, throw_at_rest_and_running, wetted_radii_in_wind, wetted_radius, windy_pattern,
     PatternGrid, PatternOptions, ThrowComparison, ThrowReport, WindRadii,
@@ -170,6 +173,59 @@ pub fn layout_overlap(
     } else {
         overlap(layout, &head.throw.profile as &dyn HeadPattern, &opts)
     }
+}
+
+/// A recommended spacing for one pattern family in one wind.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SpacingRecommendation {
+    /// The pattern family.
+    pub family: PatternFamily,
+    /// Wind speed the overlap was computed in, m/s (0: calm air).
+    pub wind_m_s: f64,
+    /// The overlap at the recommended spacing; `None` when even the closest
+    /// scanned spacing misses the goal.
+    pub result: Option<LayoutResult>,
+}
+
+/// The largest spacing meeting `goal` for each of `families` (model.md M9),
+/// in calm air and, when the design has wind, in that wind too.
+pub fn recommend_spacings(
+    design: &Design,
+    head: &HeadThrow,
+    families: &[PatternFamily],
+    goal: SpacingGoal,
+    pattern_opts: &PatternOptions,
+    overlap_opts: &OverlapOptions,
+) -> Result<Vec<SpacingRecommendation>, ThrowError> {
+    let opts = OverlapOptions {
+        wetted_radius_m: overlap_opts
+            .wetted_radius_m
+            .or(Some(head.throw.wetted_radius_m)),
+        ..*overlap_opts
+    };
+    let windy = if design.wind.speed_m_s > 0.0 {
+        Some(head_pattern_in_wind(design, head, pattern_opts)?)
+    } else {
+        None
+    };
+    let mut out = Vec::new();
+    for &family in families {
+        out.push(SpacingRecommendation {
+            family,
+            wind_m_s: 0.0,
+            result: recommend_spacing(&head.throw.profile, family, goal, &opts)?,
+        });
+    }
+    if let Some(grid) = &windy {
+        for &family in families {
+            out.push(SpacingRecommendation {
+                family,
+                wind_m_s: design.wind.speed_m_s,
+                result: recommend_spacing(grid, family, goal, &opts)?,
+            });
+        }
+    }
+    Ok(out)
 }
 
 /// CU and DU_lq of a design on its own layout, % (None without a layout, or

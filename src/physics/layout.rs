@@ -566,9 +566,188 @@ pub fn intake_check(
     })
 }
 
+/// The uniformity a recommended spacing must reach.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum SpacingGoal {
+    /// Christiansen's CU at least this, %.
+    Cu(f64),
+    /// Low-quarter DU at least this, %.
+    DuLq(f64),
+}
+
+impl SpacingGoal {
+    /// The goal's figure in `result`, %.
+    pub fn value(&self, result: &LayoutResult) -> f64 {
+        match self {
+            SpacingGoal::Cu(_) => result.uniformity.cu_percent,
+            SpacingGoal::DuLq(_) => result.uniformity.du_lq_percent,
+        }
+    }
+
+    /// The wanted figure, %.
+    pub fn percent(&self) -> f64 {
+        match *self {
+            SpacingGoal::Cu(p) | SpacingGoal::DuLq(p) => p,
+        }
+    }
+
+    /// True when `result` meets the goal.
+    pub fn met_by(&self, result: &LayoutResult) -> bool {
+        self.value(result) >= self.percent()
+    }
+}
+
+/// Head pattern of a layout family, for [`recommend_spacing`]: the lattice
+/// with head spacing S along a row.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum PatternFamily {
+    /// S × S.
+    Square,
+    /// S × L with L = `rows_ratio` · S, or L fixed.
+    Rectangle(RowRule),
+    /// Equilateral triangles of side S.
+    Triangle,
+}
+
+/// How a rectangle's row spacing follows the head spacing.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum RowRule {
+    /// L = ratio · S.
+    Ratio(f64),
+    /// L fixed, m.
+    Fixed(f64),
+}
+
+/// Row spacing over head spacing of a recommended rectangle when the rows
+/// are not given: 1.15 (a project choice, model.md M9).
+pub const DEFAULT_ROWS_RATIO: f64 = 1.15;
+
+impl PatternFamily {
+    /// The layout with head spacing `s` m.
+    pub fn layout(&self, s: f64) -> Layout {
+        match *self {
+            PatternFamily::Square => Layout::Square { spacing_m: s },
+            PatternFamily::Rectangle(RowRule::Ratio(k)) => Layout::Rectangle {
+                spacing_m: s,
+                rows_m: k * s,
+            },
+            PatternFamily::Rectangle(RowRule::Fixed(l)) => Layout::Rectangle {
+                spacing_m: s,
+                rows_m: l,
+            },
+            PatternFamily::Triangle => Layout::Triangle { spacing_m: s },
+        }
+    }
+}
+
+/// The scan of [`recommend_spacing`] starts at this fraction of the head's
+/// reach…
+pub const RECOMMEND_SCAN_START: f64 = 0.2;
+/// …ends at this fraction (the spacing equal to the wetted diameter)…
+pub const RECOMMEND_SCAN_END: f64 = 2.0;
+/// …in steps of this fraction.
+pub const RECOMMEND_SCAN_STEP: f64 = 0.05;
+/// Bisection stops when the bracket is this fraction of the reach (1 cm on a
+/// 10 m head).
+const RECOMMEND_TOLERANCE: f64 = 1e-3;
+
+/// The largest head spacing of a pattern family that meets `goal` with every
+/// spacing below it (model.md M9, "recommended spacing").
+///
+/// CU and DU are not monotone in the spacing (a ring-shaped profile can
+/// overlap well again past a poor spacing), so this does not look for *any*
+/// spacing that meets the goal: it scans from [`RECOMMEND_SCAN_START`] × the
+/// head's reach outwards in steps of [`RECOMMEND_SCAN_STEP`] × the reach,
+/// stops at the first spacing that misses the goal, and bisects between the
+/// last spacing that met it and that one down to 10⁻³ of the reach. The answer
+/// is the largest spacing such that every scanned spacing from the scan start
+/// up to it meets the goal. `Ok(None)` when the scan start already misses the
+/// goal. When nothing up to [`RECOMMEND_SCAN_END`] × the reach misses it, that
+/// end is returned.
+pub fn recommend_spacing(
+    head: &dyn HeadPattern,
+    family: PatternFamily,
+    goal: SpacingGoal,
+    opts: &OverlapOptions,
+) -> Result<Option<LayoutResult>, ThrowError> {
+    let reach = head.reach_m();
+    if !(reach.is_finite() && reach > 0.0) {
+        return Err(ThrowError::InvalidInput {
+            field: "head pattern".to_string(),
+            detail: "wets nothing: no spacing to recommend".to_string(),
+        });
+    }
+    let at = |s: f64| overlap(&family.layout(s), head, opts);
+    let steps =
+        ((RECOMMEND_SCAN_END - RECOMMEND_SCAN_START) / RECOMMEND_SCAN_STEP).round() as usize;
+    let mut good: Option<(f64, LayoutResult)> = None;
+    let mut bad: Option<f64> = None;
+    for k in 0..=steps {
+        let s = reach * (RECOMMEND_SCAN_START + RECOMMEND_SCAN_STEP * k as f64);
+        let r = at(s)?;
+        if goal.met_by(&r) {
+            good = Some((s, r));
+        } else {
+            bad = Some(s);
+            break;
+        }
+    }
+    let Some((mut lo, mut best)) = good else {
+        return Ok(None);
+    };
+    let Some(mut hi) = bad else {
+        return Ok(Some(best));
+    };
+    while hi - lo > RECOMMEND_TOLERANCE * reach {
+        let mid = 0.5 * (lo + hi);
+        let r = at(mid)?;
+        if goal.met_by(&r) {
+            lo = mid;
+            best = r;
+        } else {
+            hi = mid;
+        }
+    }
+    Ok(Some(best))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn recommended_spacing_is_the_edge_of_the_goal() {
+        // A head whose rate falls linearly from 10 mm/h at the head to 0 at
+        // 8 m (an invented leg): the recommendation meets the goal, every
+        // scanned spacing below it does too, and 10 % more does not (the rule
+        // in model.md M9).
+        let leg = MeasuredLeg::new(vec![(0.0, 10.0), (8.0, 0.0)]).unwrap();
+        let reach = leg.reach_m();
+        let opts = OverlapOptions::default();
+        for family in [
+            PatternFamily::Square,
+            PatternFamily::Rectangle(RowRule::Ratio(DEFAULT_ROWS_RATIO)),
+            PatternFamily::Rectangle(RowRule::Fixed(9.0)),
+            PatternFamily::Triangle,
+        ] {
+            let best = recommend_spacing(&leg, family, SpacingGoal::Cu(85.0), &opts)
+                .unwrap()
+                .unwrap();
+            assert!(best.uniformity.cu_percent >= 85.0);
+            let s = best.spacing_m;
+            let further = overlap(&family.layout(1.1 * s), &leg, &opts).unwrap();
+            assert!(further.uniformity.cu_percent < 85.0, "{family:?} at {s}");
+            let mut k = RECOMMEND_SCAN_START * reach;
+            while k < s {
+                let r = overlap(&family.layout(k), &leg, &opts).unwrap();
+                assert!(r.uniformity.cu_percent >= 85.0, "{family:?} at {k}");
+                k += RECOMMEND_SCAN_STEP * reach;
+            }
+        }
+        // A goal nothing meets.
+        let none = recommend_spacing(&leg, PatternFamily::Square, SpacingGoal::Cu(100.1), &opts);
+        assert!(matches!(none, Ok(None)));
+    }
 
     #[test]
     fn hand_set() {

@@ -142,6 +142,10 @@ pub struct SprayResult {
     pub paths: Vec<Option<NozzlePaths>>,
     /// Overlap on the design's layout (from the 2-D pattern in wind), when it has one.
     pub layout: Option<Result<LayoutResult, String>>,
+    /// The largest spacing of the layout's own pattern (its row-to-head
+    /// ratio kept) with CU at least [`RECOMMEND_CU_PERCENT`], in the design's
+    /// wind (model.md M9); `None` without a layout or when none meets it.
+    pub recommended: Option<LayoutResult>,
     /// Time the job took.
     pub elapsed: Duration,
 }
@@ -159,6 +163,39 @@ impl SprayResult {
             _ => None,
         }
     }
+}
+
+/// The CU goal of the spacing the Pattern view recommends, % (common practice
+/// for sprinkler layouts: 85 %).
+pub const RECOMMEND_CU_PERCENT: f64 = 85.0;
+
+/// The recommended spacing of `layout`'s pattern for the Pattern view.
+fn recommended_for(
+    design: &Design,
+    head: &crate::physics::coverage::HeadThrow,
+    layout: &crate::physics::design::Layout,
+    opts: &PatternOptions,
+) -> Option<LayoutResult> {
+    use crate::physics::design::Layout as L;
+    use crate::physics::layout::{PatternFamily, RowRule, SpacingGoal};
+    let family = match *layout {
+        L::Square { .. } => PatternFamily::Square,
+        L::Rectangle { spacing_m, rows_m } => {
+            PatternFamily::Rectangle(RowRule::Ratio(rows_m / spacing_m))
+        }
+        L::Triangle { .. } => PatternFamily::Triangle,
+    };
+    let recs = crate::physics::coverage::recommend_spacings(
+        design,
+        head,
+        &[family],
+        SpacingGoal::Cu(RECOMMEND_CU_PERCENT),
+        opts,
+        &OverlapOptions::default(),
+    )
+    .ok()?;
+    // In wind the last entry is the windy one, as the layout shown.
+    recs.into_iter().last().and_then(|r| r.result)
 }
 
 /// Computes the spray results of one design (what the worker thread runs),
@@ -179,7 +216,7 @@ pub fn spray(design: &Design, report: &SpinReport) -> SprayResult {
         .collect();
     let head = head_throw(design, report, &opts, None).map_err(|e| e.to_string());
     let env = flight_env(design);
-    let (throw, comparison, paths, layout) = match &head {
+    let (throw, comparison, paths, layout, recommended) = match &head {
         Ok(h) => {
             let paths = h
                 .spraying
@@ -196,11 +233,15 @@ pub fn spray(design: &Design, report: &SpinReport) -> SprayResult {
                 layout_overlap(design, h, &l, &opts, &OverlapOptions::default())
                     .map_err(|e| e.to_string())
             });
+            let recommended = design
+                .layout
+                .and_then(|l| recommended_for(design, h, &l, &opts));
             (
                 Ok(h.throw.clone()),
                 h.spraying.running.then_some(h.rest_vs_running),
                 paths,
                 layout,
+                recommended,
             )
         }
         Err(e) => (
@@ -208,6 +249,7 @@ pub fn spray(design: &Design, report: &SpinReport) -> SprayResult {
             None,
             Vec::new(),
             design.layout.map(|_| Err(e.clone())),
+            None,
         ),
     };
     SprayResult {
@@ -216,6 +258,7 @@ pub fn spray(design: &Design, report: &SpinReport) -> SprayResult {
         comparison,
         paths,
         layout,
+        recommended,
         elapsed: start.elapsed(),
     }
 }

@@ -8,9 +8,12 @@ use crate::units::Dimension as D;
 
 catalogue! {
     /// Hub radius (inner end of arm drag).
-    HUB_RADIUS = number!("rotor.hub_radius", "hub radius", "where the arms leave the hub",
+    HUB_RADIUS = Input {
+        vary: Some(Vary::field("hub_radius", "hub_radius_m")),
+        ..number!("rotor.hub_radius", "hub radius", "where the arms leave the hub",
         Group::Arms, Unit::Dim(D::SmallLength), Range::NonNegative, step(1.0e-3),
-        |d| Some(d.rotor.hub_radius_m), |d, v| { d.rotor.hub_radius_m = v; true });
+        |d| Some(d.rotor.hub_radius_m), |d, v| { d.rotor.hub_radius_m = v; true })
+    };
     /// The number of arms (changed with the arm keys, not edited as a number).
     ARM_COUNT = Input {
         editable: false,
@@ -62,41 +65,53 @@ catalogue! {
         editable: true,
     };
     /// A given inertia.
-    INERTIA_GIVEN = number!("rotor.inertia.Given", "inertia value",
+    INERTIA_GIVEN = Input {
+        vary: Some(Vary::field("inertia", "inertia_kg_m2")),
+        ..number!("rotor.inertia.Given", "inertia value",
         "mass moment of inertia about the spin axis", Group::Arms, Unit::Dim(D::Inertia),
         Range::Positive, step(1.0e-4),
         |d| match d.rotor.inertia { Inertia::Given { kg_m2 } => Some(kg_m2), _ => None },
         |d, v| match &mut d.rotor.inertia {
             Inertia::Given { kg_m2 } => { *kg_m2 = v; true }
             _ => false,
-        });
+        })
+    };
     /// Tube material density (estimate).
-    TUBE_DENSITY = number!("rotor.inertia.Estimate.tube_density", "tube density",
+    TUBE_DENSITY = Input {
+        vary: Some(Vary::field("tube_density", "tube_density_kg_m3")),
+        ..number!("rotor.inertia.Estimate.tube_density", "tube density",
         "arm tube material density (brass about 8500 kg/m³)", Group::Arms,
         Unit::Dim(D::Density), Range::Positive, step(100.0),
         |d| estimate(&d.rotor.inertia).map(|e| e.0),
         |d, v| match &mut d.rotor.inertia {
             Inertia::Estimate { tube_density_kg_m3, .. } => { *tube_density_kg_m3 = v; true }
             _ => false,
-        });
+        })
+    };
     /// Tube wall (estimate).
-    TUBE_WALL = number!("rotor.inertia.Estimate.tube_wall", "tube wall",
+    TUBE_WALL = Input {
+        vary: Some(Vary::field("tube_wall", "tube_wall_m")),
+        ..number!("rotor.inertia.Estimate.tube_wall", "tube wall",
         "arm tube wall thickness", Group::Arms, Unit::Dim(D::SmallLength), Range::Positive,
         step(0.1e-3),
         |d| estimate(&d.rotor.inertia).map(|e| e.1),
         |d, v| match &mut d.rotor.inertia {
             Inertia::Estimate { tube_wall_m, .. } => { *tube_wall_m = v; true }
             _ => false,
-        });
+        })
+    };
     /// Tip mass (estimate).
-    TIP_MASS = number!("rotor.inertia.Estimate.tip_mass", "tip mass",
+    TIP_MASS = Input {
+        vary: Some(Vary::field("tip_mass", "tip_mass_kg")),
+        ..number!("rotor.inertia.Estimate.tip_mass", "tip mass",
         "mass of each nozzle body at an arm tip", Group::Arms, Unit::Dim(D::Mass),
         Range::NonNegative, step(1.0e-3),
         |d| estimate(&d.rotor.inertia).map(|e| e.2),
         |d, v| match &mut d.rotor.inertia {
             Inertia::Estimate { tip_mass_kg, .. } => { *tip_mass_kg = v; true }
             _ => false,
-        });
+        })
+    };
 
     /// Nozzle exit diameter (per arm).
     NOZZLE_DIAMETER = Input {
@@ -211,11 +226,17 @@ catalogue! {
             Unit::Dim(D::SmallLength), Range::NonNegative, step(10.0e-3), |a| a.height_m)
     };
     /// Arm direction around the hub (per arm).
-    AZIMUTH = arm!("rotor.arms[].azimuth", "azimuth", "arm direction around the hub",
-        Unit::Dim(D::Angle), Range::Any, step(5.0 * DEG), |a| a.azimuth_rad);
+    AZIMUTH = Input {
+        vary: Some(Vary::arms("azimuth", "azimuth_rad", ArmRule::Shift)),
+        ..arm!("rotor.arms[].azimuth", "azimuth", "arm direction around the hub",
+        Unit::Dim(D::Angle), Range::Any, step(5.0 * DEG), |a| a.azimuth_rad)
+    };
     /// Rise of the arm from the swivel to the nozzle (per arm).
-    RISE = arm!("rotor.arms[].rise", "rise", "arm rise from the swivel to the nozzle",
-        Unit::Dim(D::SmallLength), Range::Any, step(5.0e-3), |a| a.rise_m);
+    RISE = Input {
+        vary: Some(Vary::arms("rise", "rise_m", ArmRule::Shift)),
+        ..arm!("rotor.arms[].rise", "rise", "arm rise from the swivel to the nozzle",
+        Unit::Dim(D::SmallLength), Range::Any, step(5.0e-3), |a| a.rise_m)
+    };
     /// Tube bore (per arm).
     TUBE_BORE = Input {
         vary: Some(Vary {
@@ -236,17 +257,26 @@ catalogue! {
             Unit::Dim(D::SmallLength), Range::Positive, step(0.5e-3), |a| a.tube.bore_m)
     };
     /// Tube outside diameter (per arm).
-    TUBE_OUTER = arm!("rotor.arms[].tube.outer", "tube outside",
+    TUBE_OUTER = Input {
+        vary: Some(Vary::arms("tube_outer", "tube_outer_m", ArmRule::Scale)),
+        ..arm!("rotor.arms[].tube.outer", "tube outside",
         "arm tube outside diameter (air drag)", Unit::Dim(D::SmallLength), Range::Positive,
-        step(0.5e-3), |a| a.tube.outer_m);
+        step(0.5e-3), |a| a.tube.outer_m)
+    };
     /// Tube wall roughness (per arm).
-    TUBE_ROUGHNESS = arm!("rotor.arms[].tube.roughness", "tube roughness",
+    TUBE_ROUGHNESS = Input {
+        vary: Some(Vary::arms("tube_roughness", "tube_roughness_m", ArmRule::Shift)),
+        ..arm!("rotor.arms[].tube.roughness", "tube roughness",
         "arm tube wall roughness", Unit::Dim(D::SmallLength), Range::NonNegative, step(1.0e-6),
-        |a| a.tube.roughness_m);
+        |a| a.tube.roughness_m)
+    };
     /// Minor losses along the arm (per arm).
-    TUBE_MINOR_K = arm!("rotor.arms[].tube.minor_k", "tube fittings K",
+    TUBE_MINOR_K = Input {
+        vary: Some(Vary::arms("tube_minor_k", "tube_minor_k", ArmRule::Shift)),
+        ..arm!("rotor.arms[].tube.minor_k", "tube fittings K",
         "elbows and entry along the arm, in velocity heads", Unit::None, Range::NonNegative,
-        step(0.1), |a| a.tube.minor_k);
+        step(0.1), |a| a.tube.minor_k)
+    };
     /// Developed tube length (per arm; auto: the arm radius). Not in the list.
     TUBE_LENGTH = Input {
         path: "rotor.arms[].tube.length",

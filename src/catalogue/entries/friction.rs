@@ -62,27 +62,39 @@ catalogue! {
             |d, v| washer_mut(d).map(|w| w.mu_static = v).is_some())
     };
     /// Washer inner radius.
-    WASHER_INNER = number!("friction.bearing.Washer.inner", "washer inner r",
+    WASHER_INNER = Input {
+        vary: Some(Vary::field("washer_inner", "washer_inner_m")),
+        ..number!("friction.bearing.Washer.inner", "washer inner r",
         "washer inner radius", Group::Friction, Unit::Dim(D::SmallLength), Range::NonNegative,
         step(0.5e-3),
-        |d| washer(d).map(|w| w.inner_m), |d, v| washer_mut(d).map(|w| w.inner_m = v).is_some());
+        |d| washer(d).map(|w| w.inner_m), |d, v| washer_mut(d).map(|w| w.inner_m = v).is_some())
+    };
     /// Washer outer radius.
-    WASHER_OUTER = number!("friction.bearing.Washer.outer", "washer outer r",
+    WASHER_OUTER = Input {
+        vary: Some(Vary::field("washer_outer", "washer_outer_m")),
+        ..number!("friction.bearing.Washer.outer", "washer outer r",
         "washer outer radius", Group::Friction, Unit::Dim(D::SmallLength), Range::Positive,
         step(0.5e-3),
-        |d| washer(d).map(|w| w.outer_m), |d, v| washer_mut(d).map(|w| w.outer_m = v).is_some());
+        |d| washer(d).map(|w| w.outer_m), |d, v| washer_mut(d).map(|w| w.outer_m = v).is_some())
+    };
     /// Area on which hub pressure lifts the rotor.
-    THRUST_AREA = number!("friction.bearing.Washer.thrust_area", "thrust area",
+    THRUST_AREA = Input {
+        vary: Some(Vary::field("thrust_area", "thrust_area_m2")),
+        ..number!("friction.bearing.Washer.thrust_area", "thrust area",
         "area on which hub pressure lifts the rotor", Group::Friction, Unit::Dim(D::Area),
         Range::NonNegative, step(5.0e-6),
         |d| washer(d).map(|w| w.thrust_area_m2),
-        |d, v| washer_mut(d).map(|w| w.thrust_area_m2 = v).is_some());
+        |d, v| washer_mut(d).map(|w| w.thrust_area_m2 = v).is_some())
+    };
     /// Mass of the rotating part.
-    ROTOR_MASS = number!("friction.bearing.Washer.rotor_mass", "rotor mass",
+    ROTOR_MASS = Input {
+        vary: Some(Vary::field("rotor_mass", "rotor_mass_kg")),
+        ..number!("friction.bearing.Washer.rotor_mass", "rotor mass",
         "mass of the rotating part", Group::Friction, Unit::Dim(D::Mass), Range::Positive,
         step(10.0e-3),
         |d| washer(d).map(|w| w.rotor_mass_kg),
-        |d, v| washer_mut(d).map(|w| w.rotor_mass_kg = v).is_some());
+        |d, v| washer_mut(d).map(|w| w.rotor_mass_kg = v).is_some())
+    };
     /// Run-in or new washer.
     RADIUS_RULE = Input {
         path: "friction.bearing.Washer.radius_rule",
@@ -146,14 +158,20 @@ catalogue! {
             })
     };
     /// Seal torque at zero pressure.
-    SEAL_BASE = number!("friction.seal.base", "seal drag", "seal torque at zero pressure",
+    SEAL_BASE = Input {
+        vary: Some(Vary::field("seal", "seal_n_m")),
+        ..number!("friction.seal.base", "seal drag", "seal torque at zero pressure",
         Group::Friction, Unit::Dim(D::Torque), Range::NonNegative, step(1.0e-3),
-        |d| Some(d.friction.seal.base_n_m), |d, v| { d.friction.seal.base_n_m = v; true });
+        |d| Some(d.friction.seal.base_n_m), |d, v| { d.friction.seal.base_n_m = v; true })
+    };
     /// Seal torque added per unit of hub pressure (the file writes it per kPa).
-    SEAL_PER_PRESSURE = number!("friction.seal.per_kpa", "seal slope",
+    SEAL_PER_PRESSURE = Input {
+        vary: Some(Vary::field("seal_per_pressure", "seal_per_pressure_n_m_pa")),
+        ..number!("friction.seal.per_kpa", "seal slope",
         "seal torque added per unit of hub gauge pressure", Group::Friction,
         Unit::Per(D::Torque, D::Pressure), Range::NonNegative, step(1.0e-8),
-        |d| Some(d.friction.seal.per_pa_n_m), |d, v| { d.friction.seal.per_pa_n_m = v; true });
+        |d| Some(d.friction.seal.per_pa_n_m), |d, v| { d.friction.seal.per_pa_n_m = v; true })
+    };
     /// Viscous brake c₁.
     BRAKE_VISCOUS = Input {
         vary: Some(Vary {
@@ -183,8 +201,11 @@ catalogue! {
             |d| Some(d.friction.brake.quadratic), |d, v| { d.friction.brake.quadratic = v; true })
     };
     /// Arm drag coefficient.
-    ARM_DRAG_CD = number!("friction.arm_drag_cd", "arm drag Cd",
+    ARM_DRAG_CD = Input {
+        vary: Some(Vary::field("arm_drag_cd", "arm_drag_cd")),
+        ..number!("friction.arm_drag_cd", "arm drag Cd",
         "drag coefficient of an arm tube in cross-flow", Group::Friction, Unit::None,
         Range::NonNegative, step(0.1),
-        |d| Some(d.friction.arm_drag_cd), |d, v| { d.friction.arm_drag_cd = v; true });
+        |d| Some(d.friction.arm_drag_cd), |d, v| { d.friction.arm_drag_cd = v; true })
+    };
 }

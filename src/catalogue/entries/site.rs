@@ -20,7 +20,7 @@ catalogue! {
         },
         range: Range::Positive,
         step: step(0.1e-3),
-        vary: None,
+        vary: Some(Vary::field("d50", "d50_m")),
         editable: true,
     };
     /// Spread exponent (or auto).
@@ -36,7 +36,7 @@ catalogue! {
         },
         range: Range::Positive,
         step: step(0.1),
-        vary: None,
+        vary: Some(Vary::field("spread", "spread")),
         editable: true,
     };
     /// Largest drop (or auto).
@@ -52,7 +52,7 @@ catalogue! {
         },
         range: Range::Positive,
         step: step(0.1e-3),
-        vary: None,
+        vary: Some(Vary::field("largest", "largest_m")),
         editable: true,
     };
     /// Jet breakup coefficient (or auto).
@@ -72,7 +72,7 @@ catalogue! {
             rule: "must be from 2 to 22 (a plausible jet; the published default is 11), or Auto",
         },
         step: step(0.5),
-        vary: None,
+        vary: Some(Vary::field("breakup", "breakup")),
         editable: true,
     };
 
@@ -111,14 +111,17 @@ catalogue! {
         editable: true,
     };
     /// Head spacing of a square layout.
-    SQUARE_SPACING = number!("layout.Square.spacing", "head spacing",
+    SQUARE_SPACING = Input {
+        vary: Some(Vary { how: How::LayoutSpacing, ..Vary::field("spacing", "spacing_m") }),
+        ..number!("layout.Square.spacing", "head spacing",
         "head spacing along a row and between rows", Group::Layout, Unit::Dim(D::Length),
         Range::Positive, step(0.5),
         |d| match d.layout { Some(Layout::Square { spacing_m }) => Some(spacing_m), _ => None },
         |d, v| match &mut d.layout {
             Some(Layout::Square { spacing_m }) => { *spacing_m = v; true }
             _ => false,
-        });
+        })
+    };
     /// Head spacing along a row of a rectangular layout.
     RECTANGLE_SPACING = number!("layout.Rectangle.spacing", "head spacing",
         "head spacing along a row", Group::Layout, Unit::Dim(D::Length), Range::Positive,
@@ -129,13 +132,16 @@ catalogue! {
             _ => false,
         });
     /// Row spacing of a rectangular layout.
-    RECTANGLE_ROWS = number!("layout.Rectangle.rows", "row spacing", "spacing between rows",
+    RECTANGLE_ROWS = Input {
+        vary: Some(Vary::field("rows", "rows_m")),
+        ..number!("layout.Rectangle.rows", "row spacing", "spacing between rows",
         Group::Layout, Unit::Dim(D::Length), Range::Positive, step(0.5),
         |d| match d.layout { Some(Layout::Rectangle { rows_m, .. }) => Some(rows_m), _ => None },
         |d, v| match &mut d.layout {
             Some(Layout::Rectangle { rows_m, .. }) => { *rows_m = v; true }
             _ => false,
-        });
+        })
+    };
     /// Head spacing of a triangular layout.
     TRIANGLE_SPACING = number!("layout.Triangle.spacing", "head spacing",
         "head spacing along a row (rows 0.87 of it apart)", Group::Layout, Unit::Dim(D::Length),
@@ -182,13 +188,18 @@ catalogue! {
             |d| Some(d.water_temperature_c), |d, v| { d.water_temperature_c = v; true })
     };
     /// Air temperature.
-    AIR_TEMPERATURE = number!("air.temperature", "air temp", "air temperature", Group::Site,
+    AIR_TEMPERATURE = Input {
+        vary: Some(Vary::field("air_temperature", "air_temperature_c")),
+        ..number!("air.temperature", "air temp", "air temperature", Group::Site,
         Unit::Dim(D::Temperature),
         Range::Between { lo: -40.0, hi: 60.0, rule: "must be between -40 and 60 °C (-40–140 °F)" },
         step(1.0),
-        |d| Some(d.site.air_temperature_c), |d, v| { d.site.air_temperature_c = v; true });
+        |d| Some(d.site.air_temperature_c), |d, v| { d.site.air_temperature_c = v; true })
+    };
     /// Altitude.
-    ALTITUDE = number!("air.altitude", "altitude", "site altitude", Group::Site,
+    ALTITUDE = Input {
+        vary: Some(Vary::field("altitude", "altitude_m")),
+        ..number!("air.altitude", "altitude", "site altitude", Group::Site,
         Unit::Dim(D::Length),
         Range::Between {
             lo: -500.0,
@@ -196,7 +207,8 @@ catalogue! {
             rule: "must be between -500 m and 11000 m (the standard atmosphere's troposphere)",
         },
         step(50.0),
-        |d| Some(d.site.altitude_m), |d, v| { d.site.altitude_m = v; true });
+        |d| Some(d.site.altitude_m), |d, v| { d.site.altitude_m = v; true })
+    };
     /// Height of the lowest thing overhead (or none).
     CLEARANCE = Input {
         path: "clearance",
@@ -214,7 +226,7 @@ catalogue! {
             rule: "must be between 0 and 1000 m (the height of the lowest thing overhead)",
         },
         step: step(0.5),
-        vary: None,
+        vary: Some(Vary::field("clearance", "clearance_m")),
         editable: true,
     };
     /// Wind speed.
@@ -225,10 +237,13 @@ catalogue! {
             |d| Some(d.wind.speed_m_s), |d, v| { d.wind.speed_m_s = v; true })
     };
     /// Direction the wind blows from.
-    WIND_FROM = number!("wind.from", "wind from, ccw of +x",
+    WIND_FROM = Input {
+        vary: Some(Vary::field("wind_from", "wind_from_rad")),
+        ..number!("wind.from", "wind from, ccw of +x",
         "direction the wind blows from, degrees counter-clockwise from +x (right on the depth map; 90 = from +y, the top)",
         Group::Site, Unit::Dim(D::Angle), Range::Any,
         // 5° fine, 45° (an eighth of a turn) coarse.
         Step { fine: 5.0 * DEG, coarse: 9.0 },
-        |d| Some(d.wind.from_rad), |d, v| { d.wind.from_rad = v; true });
+        |d| Some(d.wind.from_rad), |d, v| { d.wind.from_rad = v; true })
+    };
 }

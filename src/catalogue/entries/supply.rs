@@ -87,35 +87,56 @@ catalogue! {
         Range::Positive, step(5.0e3),
         |d| line(d).map(|l| l.source_pa), |d, v| line_mut(d).map(|l| l.source_pa = v).is_some());
     /// Hose length.
-    LINE_LENGTH = number!("supply.Line.length", "hose length",
+    LINE_LENGTH = Input {
+        vary: Some(Vary::field("hose_length", "hose_length_m")),
+        ..number!("supply.Line.length", "hose length",
         "hose length from the source to the sprinkler", Group::Supply, Unit::Dim(D::Length),
         Range::Positive, step(0.5),
-        |d| line(d).map(|l| l.length_m), |d, v| line_mut(d).map(|l| l.length_m = v).is_some());
+        |d| line(d).map(|l| l.length_m), |d, v| line_mut(d).map(|l| l.length_m = v).is_some())
+    };
     /// Hose bore.
-    LINE_BORE = number!("supply.Line.bore", "hose bore", "hose inside diameter", Group::Supply,
+    LINE_BORE = Input {
+        vary: Some(Vary::field("hose_bore", "hose_bore_m")),
+        ..number!("supply.Line.bore", "hose bore", "hose inside diameter", Group::Supply,
         Unit::Dim(D::SmallLength), Range::Positive, step(1.0e-3),
-        |d| line(d).map(|l| l.bore_m), |d, v| line_mut(d).map(|l| l.bore_m = v).is_some());
+        |d| line(d).map(|l| l.bore_m), |d, v| line_mut(d).map(|l| l.bore_m = v).is_some())
+    };
     /// Hose wall roughness.
-    LINE_ROUGHNESS = number!("supply.Line.roughness", "hose roughness", "hose wall roughness",
+    LINE_ROUGHNESS = Input {
+        vary: Some(Vary::field("hose_roughness", "hose_roughness_m")),
+        ..number!("supply.Line.roughness", "hose roughness", "hose wall roughness",
         Group::Supply, Unit::Dim(D::SmallLength), Range::NonNegative, step(1.0e-6),
         |d| line(d).map(|l| l.roughness_m),
-        |d, v| line_mut(d).map(|l| l.roughness_m = v).is_some());
+        |d, v| line_mut(d).map(|l| l.roughness_m = v).is_some())
+    };
     /// Hose minor losses.
-    LINE_MINOR_K = number!("supply.Line.minor_k", "hose fittings K",
+    LINE_MINOR_K = Input {
+        vary: Some(Vary::field("hose_minor_k", "hose_minor_k")),
+        ..number!("supply.Line.minor_k", "hose fittings K",
         "fittings and couplings, in velocity heads", Group::Supply, Unit::None,
         Range::NonNegative, step(0.1),
-        |d| line(d).map(|l| l.minor_k), |d, v| line_mut(d).map(|l| l.minor_k = v).is_some());
+        |d| line(d).map(|l| l.minor_k), |d, v| line_mut(d).map(|l| l.minor_k = v).is_some())
+    };
     /// Rise from the source to the inlet.
-    LINE_LIFT = number!("supply.Line.lift", "lift to inlet",
+    LINE_LIFT = Input {
+        vary: Some(Vary::field("lift", "lift_m")),
+        ..number!("supply.Line.lift", "lift to inlet",
         "rise from the source to the inlet (negative: downhill)", Group::Supply,
         Unit::Dim(D::Length), Range::Any, step(0.1),
-        |d| line(d).map(|l| l.lift_m), |d, v| line_mut(d).map(|l| l.lift_m = v).is_some());
+        |d| line(d).map(|l| l.lift_m), |d, v| line_mut(d).map(|l| l.lift_m = v).is_some())
+    };
     /// Swivel inlet bore.
-    SWIVEL_BORE = number!("rotor.swivel.inlet_bore", "swivel bore", "swivel inlet bore",
+    SWIVEL_BORE = Input {
+        vary: Some(Vary::field("swivel_bore", "swivel_bore_m")),
+        ..number!("rotor.swivel.inlet_bore", "swivel bore", "swivel inlet bore",
         Group::Supply, Unit::Dim(D::SmallLength), Range::Positive, step(0.5e-3),
-        |d| Some(d.rotor.swivel.inlet_bore_m), |d, v| { d.rotor.swivel.inlet_bore_m = v; true });
+        |d| Some(d.rotor.swivel.inlet_bore_m), |d, v| { d.rotor.swivel.inlet_bore_m = v; true })
+    };
     /// Swivel loss coefficient.
-    SWIVEL_K = number!("rotor.swivel.k", "swivel K", "swivel loss, in velocity heads",
+    SWIVEL_K = Input {
+        vary: Some(Vary::field("swivel_k", "swivel_k")),
+        ..number!("rotor.swivel.k", "swivel K", "swivel loss, in velocity heads",
         Group::Supply, Unit::None, Range::NonNegative, step(0.1),
-        |d| Some(d.rotor.swivel.k), |d, v| { d.rotor.swivel.k = v; true });
+        |d| Some(d.rotor.swivel.k), |d, v| { d.rotor.swivel.k = v; true })
+    };
 }

@@ -86,6 +86,17 @@ pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
                     t.error(),
                 ));
             }
+            if let Some(r) = &spray.recommended {
+                head.push(Line::styled(
+                    format!(
+                        "widest spacing for CU {:.0} %: {} × {} {lu}",
+                        crate::tui::worker::RECOMMEND_CU_PERCENT,
+                        num(to_display(D::Length, r.spacing_m, app.units)),
+                        num(to_display(D::Length, r.rows_m, app.units)),
+                    ),
+                    t.dim(),
+                ));
+            }
         }
         Some(Err(e)) => head.push(Line::styled(format!("layout: {e}"), t.error())),
         None => head.push(Line::styled(
