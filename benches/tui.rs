@@ -19,9 +19,22 @@ fn key(code: KeyCode) -> Event {
 fn edit_and_render(c: &mut Criterion) {
     let mut app = App::open(None).expect("the built-in example opens");
     app.event(&Event::Resize(160, 48));
-    while app.selected_field() != Some(Field::on_arm(&DEFLECTION, 0)) {
+    // The example opens with its arms together: one deflection for all arms.
+    let deflection = [Field::of(&DEFLECTION), Field::on_arm(&DEFLECTION, 0)];
+    for _ in 0..400 {
+        if app
+            .selected_field()
+            .is_some_and(|f| deflection.contains(&f))
+        {
+            break;
+        }
         app.event(&key(KeyCode::Down));
     }
+    assert!(
+        app.selected_field()
+            .is_some_and(|f| deflection.contains(&f)),
+        "the deflection field is in the list"
+    );
     let mut term = Terminal::new(TestBackend::new(160, 48)).expect("test terminal");
     let mut forward = true;
     c.bench_function("nudge + re-solve + render Balance 160x48", |b| {
