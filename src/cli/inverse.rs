@@ -90,18 +90,32 @@ pub fn parse_points(text: &str, axes: usize) -> Result<Vec<usize>, CliError> {
     }
 }
 
-/// Parse `NAME=FROM..TO` into an axis of `points` values. The old form
-/// `NAME=FROM:TO:STEPS` is refused with the new spelling in the message.
-pub fn parse_axis(text: &str, points: usize) -> Result<SweepAxis, CliError> {
-    let bad = |why: &str| {
+/// A `NAME=FROM..TO` argument as written.
+pub struct NamedRange<'t> {
+    /// The catalogue input it names.
+    pub input: &'static Input,
+    /// The text after `=`.
+    pub range: &'t str,
+    /// The two ends, when the range has a `..`.
+    pub ends: Option<(&'t str, &'t str)>,
+}
+
+/// Reads a `NAME=FROM..TO` argument of `option`; a range without `..` is left
+/// for the caller to refuse in its own words. `example` closes the messages
+/// (`e.g. --vary deflection=0..60 --points 13`).
+pub fn named_range<'t>(
+    option: &str,
+    text: &'t str,
+    example: &str,
+) -> Result<NamedRange<'t>, CliError> {
+    let (name, range) = text.split_once('=').ok_or_else(|| {
         CliError::Usage(format!(
-            "--vary {text}: {why} (write NAME=FROM..TO, e.g. --vary deflection=0..60 --points 13)"
+            "{option} {text}: no `=` (write NAME=FROM..TO, {example})"
         ))
-    };
-    let (name, range) = text.split_once('=').ok_or_else(|| bad("no `=`"))?;
-    let parameter = catalogue::by_vary_name(name.trim()).ok_or_else(|| {
+    })?;
+    let input = catalogue::by_vary_name(name.trim()).ok_or_else(|| {
         CliError::Usage(format!(
-            "--vary {text}: unknown input `{}`; known: {}",
+            "{option} {text}: unknown input `{}`; known: {}",
             name.trim(),
             catalogue::varied()
                 .map(|p| p.vary_name())
@@ -109,13 +123,34 @@ pub fn parse_axis(text: &str, points: usize) -> Result<SweepAxis, CliError> {
                 .join(", ")
         ))
     })?;
-    let Some((from, to)) = range.split_once("..") else {
+    Ok(NamedRange {
+        input,
+        range,
+        ends: range.split_once(".."),
+    })
+}
+
+/// Parse `NAME=FROM..TO` into an axis of `points` values. The old form
+/// `NAME=FROM:TO:STEPS` is refused with the new spelling in the message.
+pub fn parse_axis(text: &str, points: usize) -> Result<SweepAxis, CliError> {
+    let example = "e.g. --vary deflection=0..60 --points 13";
+    let bad = |why: &str| {
+        CliError::Usage(format!(
+            "--vary {text}: {why} (write NAME=FROM..TO, {example})"
+        ))
+    };
+    let NamedRange {
+        input: parameter,
+        range,
+        ends,
+    } = named_range("--vary", text, example)?;
+    let Some((from, to)) = ends else {
         let parts: Vec<&str> = range.split(':').collect();
         if let [from, to, steps] = parts.as_slice() {
             return Err(CliError::Usage(format!(
                 "--vary {text}: a range is now written FROM..TO with the number of points apart: \
                  --vary {}={}..{} --points {}",
-                name.trim(),
+                text.split_once('=').map_or("", |(name, _)| name.trim()),
                 from.trim(),
                 to.trim(),
                 steps.trim()

@@ -509,9 +509,7 @@ pub fn layout_text(
             "  heads do not meet: {:.1} % of the ground stays dry (below {}); \
              the spacing is {:.0} % of the wetted diameter\n",
             result.dry_percent,
-            rate(crate::physics::pattern::wetting_threshold_mm_h(
-                result.expected_rate_mm_h * result.spacing_m * result.rows_m / M_S_TO_MM_H
-            )),
+            rate(result.wetting_threshold_mm_h),
             result.spacing_percent_of_diameter
         ));
     }

@@ -89,25 +89,15 @@ pub struct SearchArgs {
 
 /// Parse `NAME=FROM..TO` into a free input, SI.
 pub fn parse_free(text: &str) -> Result<Free, CliError> {
+    let example = "e.g. deflection=30..85";
     let bad = |why: &str| {
         CliError::Usage(format!(
-            "--free {text}: {why} (write NAME=FROM..TO, e.g. deflection=30..85)"
+            "--free {text}: {why} (write NAME=FROM..TO, {example})"
         ))
     };
-    let (name, range) = text.split_once('=').ok_or_else(|| bad("no `=`"))?;
-    let input = catalogue::by_vary_name(name.trim()).ok_or_else(|| {
-        CliError::Usage(format!(
-            "--free {text}: unknown input `{}`; known: {}",
-            name.trim(),
-            catalogue::varied()
-                .map(|p| p.vary_name())
-                .collect::<Vec<_>>()
-                .join(", ")
-        ))
-    })?;
-    let (from, to) = range
-        .split_once("..")
-        .ok_or_else(|| bad("no `..` between the ends"))?;
+    let range = super::inverse::named_range("--free", text, example)?;
+    let input = range.input;
+    let (from, to) = range.ends.ok_or_else(|| bad("no `..` between the ends"))?;
     let from = parameter_value("--free", input, from)?;
     let to = parameter_value("--free", input, to)?;
     if to <= from {
