@@ -20,9 +20,16 @@ use ratatui::crossterm::event::{
 };
 use ratatui::layout::{Position, Rect};
 
+mod ask;
 mod readings;
+mod search_form;
+mod task;
+mod undo;
 
+pub use ask::{parse_goal, Ask, Want};
 pub use readings::{parse_turn_times, UnitReadings};
+pub use search_form::{Candidate, Found, Item, SearchForm, SearchPanel, OBJECTIVES};
+pub use undo::History;
 
 use super::fields::{self, Arms, ChoiceHint, Field, Kind, Row, Stride};
 use super::layout::{self, Areas};
@@ -145,6 +152,8 @@ pub enum InputTarget {
     SaveAs,
     /// A measurement in the Field view.
     Measured(Measure),
+    /// A goal for the input (`g`): a speed or a wetted radius.
+    Goal(Field),
 }
 
 /// The measurements typed in the Field view.
@@ -206,6 +215,8 @@ pub enum Mode {
     Picker(Picker),
     /// Asking a question.
     Confirm(Confirm),
+    /// The design search's form, progress or results.
+    Search(SearchPanel),
 }
 
 /// A design kept for comparison.
@@ -326,6 +337,10 @@ pub struct App {
     pub field: Pending<Result<FieldCheck, String>>,
     /// Readings at several pressures and the coast-down, with their fits.
     pub unit: UnitReadings,
+    /// Goals and design searches asked of the design.
+    pub ask: Ask,
+    /// The edits undo and redo go through.
+    pub history: History,
 }
 
 /// Where a file picker looks: `scenarios/` and the current folder.
@@ -409,6 +424,8 @@ impl App {
             measured: Measured::default(),
             field: Pending::default(),
             unit: UnitReadings::default(),
+            ask: Ask::default(),
+            history: History::default(),
             base_dir: std::env::current_dir().unwrap_or_else(|_| PathBuf::from(".")),
         };
         app.selected = app.first_field_from(0, true);
@@ -466,7 +483,7 @@ impl App {
         while let Some(done) = self.worker.try_recv() {
             changed |= self.take(done);
         }
-        changed
+        changed | self.poll_asks()
     }
 
     fn take(&mut self, done: Done) -> bool {
@@ -516,7 +533,11 @@ impl App {
 
     /// True while any job the screen waits for is outstanding.
     pub fn busy(&self) -> bool {
-        self.computing || self.comparison.waiting || self.field.waiting || self.unit.waiting()
+        self.computing
+            || self.comparison.waiting
+            || self.field.waiting
+            || self.unit.waiting()
+            || self.ask.busy()
     }
 
     /// Asks for the comparison again (the design or the pins changed).
@@ -561,7 +582,12 @@ impl App {
             if left.is_zero() {
                 return false;
             }
-            if let Some(done) = self.worker.recv_timeout(left) {
+            self.poll_asks();
+            // In slices, so a goal or a search on its own thread is seen too.
+            if let Some(done) = self
+                .worker
+                .recv_timeout(left.min(Duration::from_millis(20)))
+            {
                 self.take(done);
             }
         }
@@ -599,7 +625,8 @@ impl App {
     fn apply(&mut self, candidate: Design) -> bool {
         match Scenario::from_design(&candidate, self.units, &self.notes).to_design() {
             Ok(valid) => {
-                self.design = valid;
+                let before = std::mem::replace(&mut self.design, valid);
+                self.history.kept(before);
                 self.dirty = true;
                 self.resolve();
                 true
@@ -711,6 +738,7 @@ impl App {
             Mode::Help(scroll) => self.key_help(k, scroll),
             Mode::Picker(p) => self.key_picker(k, p),
             Mode::Confirm(c) => self.key_confirm(k, c),
+            Mode::Search(p) => self.key_search(k, p),
         }
     }
 
@@ -803,6 +831,10 @@ impl App {
                 self.start_input(InputTarget::Measured(Measure::Coast))
             }
             'k' if self.view == View::Field => self.toggle_keep_readings(),
+            'g' => self.start_goal(),
+            'm' => self.toggle_mark(),
+            'e' => self.open_search(),
+            'z' | 'Z' => self.undo(c == 'Z'),
             _ => {}
         }
     }
@@ -944,7 +976,9 @@ impl App {
                 })
                 .unwrap_or_default(),
             InputTarget::Measured(Measure::Coast) => self.turn_times_seed(),
-            InputTarget::Measured(Measure::Rotation | Measure::Flow) => String::new(),
+            InputTarget::Measured(Measure::Rotation | Measure::Flow) | InputTarget::Goal(_) => {
+                String::new()
+            }
         };
         self.mode = Mode::Typing(Input { target, text });
     }
@@ -1016,6 +1050,7 @@ impl App {
                 }
             }
             InputTarget::Measured(m) => self.type_measured(m, &input.text),
+            InputTarget::Goal(f) => self.ask_goal(f, &input.text),
         }
     }
 
@@ -1369,6 +1404,7 @@ impl App {
                 self.source_text = Some(text.clone());
                 self.disk_text = Some(text);
                 self.dirty = false;
+                self.history.clear();
                 self.arms = arms_shown(&self.design);
                 self.selected = 0;
                 self.list_offset = 0;

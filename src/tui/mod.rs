@@ -102,4 +102,6 @@ fn event_loop(
 }
 
 #[cfg(test)]
+mod ask_tests;
+#[cfg(test)]
 mod tests;

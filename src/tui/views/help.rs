@@ -61,6 +61,19 @@ pub const KEYS: &[(&str, &str)] = &[
         "k",
         "Field view: keep the readings when another file opens (they are cleared otherwise)",
     ),
+    (
+        "g",
+        "which value of the selected input gives a goal: type a speed (30rpm) or a throw (11m, 36ft); the nearest value is applied",
+    ),
+    (
+        "m  e",
+        "mark inputs free for a design search (◆ in the list) / open the search: ranges, goals, what to make largest; Enter runs it, Esc cancels",
+    ),
+    (
+        "",
+        "found designs: c pins one for Compare, Enter applies it, e goes back to the goals",
+    ),
+    ("z  Z", "undo / redo the last edit (goals and applied searches too)"),
     ("c", "pin the current design for Compare"),
     (
         "[ ]  < >  x",

@@ -10,6 +10,7 @@ mod compare;
 mod field;
 mod help;
 mod pattern;
+mod search_form;
 mod throw;
 
 use ratatui::layout::{Constraint, Flex, Layout, Rect};
@@ -46,6 +47,7 @@ pub fn draw(app: &App, frame: &mut Frame) {
         Mode::Help(scroll) => help::draw(app, frame, *scroll),
         Mode::Picker(p) => draw_picker(app, frame, p),
         Mode::Confirm(c) => draw_confirm(app, frame, c),
+        Mode::Search(p) => search_form::draw(app, frame, p),
         Mode::Normal | Mode::Typing(_) => {}
     }
 }
@@ -192,7 +194,13 @@ fn draw_list(app: &App, frame: &mut Frame, left: Rect, list: Rect) {
                     Some((tf, text)) if tf == *f => format!("{text}▏"),
                     _ => f.show(&app.design, app.units),
                 };
-                let text = label_value(indent, f.label(), &value, w);
+                let mut text = label_value(indent, f.label(), &value, w);
+                if let Some(rest) = text.strip_prefix(' ') {
+                    if app.ask.marked.contains(&f.input) {
+                        // Marked free for a design search (`m`).
+                        text = format!("◆{rest}");
+                    }
+                }
                 if i == app.selected {
                     Line::styled(text, t.selected())
                 } else {
@@ -294,6 +302,7 @@ fn draw_message(app: &App, frame: &mut Frame, area: Rect) {
                 InputTarget::Measured(Measure::Coast) => {
                     "coast-down, s at each turn: 0.9, 1.9, 3.0".to_string()
                 }
+                InputTarget::Goal(f) => search_form::goal_prompt(app, f),
             };
             match input.target {
                 InputTarget::Field(_) => Line::styled(format!(" {what}"), t.dim()),
@@ -340,6 +349,7 @@ pub fn keys_here(app: &App) -> Vec<(&'static str, &'static str)> {
             ("Esc", "stay"),
         ],
         Mode::Confirm(_) => vec![("y", "yes"), ("n/Esc", "no")],
+        Mode::Search(p) => search_form::keys(p),
         Mode::Normal => {
             let mut k = vec![("?", "help"), ("↑↓", "field")];
             match app.selected_field().map(|f| (f, f.kind())) {
