@@ -340,3 +340,46 @@ fn the_panels_draw_at_both_sizes() {
         assert!(s.contains("designs found") && s.contains("found 1"), "{s}");
     }
 }
+
+#[test]
+fn undo_takes_back_nudges_and_typed_values_and_forgets_them_on_open() {
+    let mut a = app();
+    let nozzle = Field::of(&cat::NOZZLE_DIAMETER);
+    select(&mut a, nozzle);
+    let first = a.design.clone();
+    press(&mut a, KeyCode::Right);
+    let nudged = a.design.clone();
+    assert_ne!(nudged, first);
+    press(&mut a, KeyCode::Enter);
+    a.event(&Event::Key(KeyEvent::new(
+        KeyCode::Char('u'),
+        KeyModifiers::CONTROL,
+    )));
+    typed(&mut a, "3mm");
+    press(&mut a, KeyCode::Enter);
+    assert_eq!(nozzle.number(&a.design), Some(3e-3));
+    press(&mut a, KeyCode::Char('z'));
+    assert_eq!(a.design, nudged);
+    press(&mut a, KeyCode::Char('z'));
+    assert_eq!(a.design, first);
+    press(&mut a, KeyCode::Char('Z'));
+    assert_eq!(a.design, nudged);
+    // A refused value is no edit: nothing to take back for it.
+    press(&mut a, KeyCode::Enter);
+    a.event(&Event::Key(KeyEvent::new(
+        KeyCode::Char('u'),
+        KeyModifiers::CONTROL,
+    )));
+    typed(&mut a, "-1mm");
+    press(&mut a, KeyCode::Enter);
+    assert_eq!(a.design, nudged);
+    assert_eq!(a.history.undo_steps(), 1);
+    // Another file starts a fresh history.
+    let path =
+        std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("scenarios/garden-spinner.ron");
+    a.open_file(&path);
+    assert_eq!(a.history.undo_steps(), 0);
+    let opened = a.design.clone();
+    press(&mut a, KeyCode::Char('z'));
+    assert_eq!(a.design, opened);
+}

@@ -77,3 +77,31 @@ impl App {
         ));
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::scenario;
+
+    #[test]
+    fn history_keeps_the_newest_steps_and_a_new_edit_ends_redo() {
+        let base = scenario::builtin_example().to_design().unwrap();
+        let named = |k: usize| Design {
+            name: format!("step {k}"),
+            ..base.clone()
+        };
+        let mut h = History::default();
+        for k in 0..MAX_UNDO + 5 {
+            h.kept(named(k));
+        }
+        assert_eq!(h.undo_steps(), MAX_UNDO);
+        // The oldest went first.
+        assert_eq!(h.undo.first().map(|d| d.name.as_str()), Some("step 5"));
+        h.redo.push(named(999));
+        assert_eq!(h.redo_steps(), 1);
+        h.kept(named(1000));
+        assert_eq!(h.redo_steps(), 0);
+        h.clear();
+        assert_eq!((h.undo_steps(), h.redo_steps()), (0, 0));
+    }
+}
