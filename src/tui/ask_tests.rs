@@ -23,6 +23,14 @@ fn app() -> App {
     a
 }
 
+/// The built-in example with `input` selected.
+fn app_on(input: &'static cat::Input) -> (App, Field) {
+    let mut a = app();
+    let f = Field::of(input);
+    select(&mut a, f);
+    (a, f)
+}
+
 fn key(code: KeyCode) -> Event {
     Event::Key(KeyEvent::new(code, KeyModifiers::NONE))
 }
@@ -56,6 +64,15 @@ fn speed(design: &Design) -> f64 {
         .omega_rad_s())
 }
 
+/// Asks for `goal` on the selected input with `g` and waits for the answer.
+fn ask_goal(a: &mut App, goal: &str) {
+    press(a, KeyCode::Char('g'));
+    assert!(matches!(a.mode, Mode::Typing(_)), "{:?}", a.mode);
+    typed(a, goal);
+    press(a, KeyCode::Enter);
+    assert!(a.settle(SETTLE), "the goal search did not finish");
+}
+
 fn message(app: &App) -> (Level, String) {
     let m = app.message.as_ref().expect("a message is shown");
     (m.level, m.text.clone())
@@ -63,19 +80,13 @@ fn message(app: &App) -> (Level, String) {
 
 #[test]
 fn a_reachable_speed_goal_on_the_deflection_is_applied_and_undone() {
-    let mut a = app();
-    let deflection = Field::of(&cat::DEFLECTION);
-    select(&mut a, deflection);
+    let (mut a, deflection) = app_on(&cat::DEFLECTION);
     let before = a.design.clone();
     let old = deflection.number(&a.design).expect("a deflection");
     // Less deflection turns the jets further back: faster (drive torque
     // ∝ cos δ, model.md M2). A third more than now is within reach.
     let goal = (1.3 * speed(&a.design)).round();
-    press(&mut a, KeyCode::Char('g'));
-    assert!(matches!(a.mode, Mode::Typing(_)), "{:?}", a.mode);
-    typed(&mut a, &format!("{goal}rpm"));
-    press(&mut a, KeyCode::Enter);
-    assert!(a.settle(SETTLE), "the goal search did not finish");
+    ask_goal(&mut a, &format!("{goal}rpm"));
     let got = speed(&a.design);
     assert!(
         ((got - goal) / goal).abs() < 0.005,
@@ -100,17 +111,12 @@ fn a_reachable_speed_goal_on_the_deflection_is_applied_and_undone() {
 
 #[test]
 fn a_throw_goal_in_feet_is_met() {
-    let mut a = app();
+    let (mut a, _) = app_on(&cat::NOZZLE_DIAMETER);
     a.set_units(crate::units::UnitSystem::Us);
-    let nozzle = Field::of(&cat::NOZZLE_DIAMETER);
-    select(&mut a, nozzle);
     let now = wetted_radius_m(&a.design, &solve(&a.design)).expect("a throw");
     // A tenth more throw, in whole feet (0.3048 m a foot).
     let feet = (1.1 * now / 0.3048).round();
-    press(&mut a, KeyCode::Char('g'));
-    typed(&mut a, &format!("{feet}ft"));
-    press(&mut a, KeyCode::Enter);
-    assert!(a.settle(SETTLE));
+    ask_goal(&mut a, &format!("{feet}ft"));
     let got = wetted_radius_m(&a.design, &solve(&a.design)).expect("a throw");
     let want = feet * 0.3048;
     assert!(
@@ -122,19 +128,24 @@ fn a_throw_goal_in_feet_is_met() {
     assert!(text.contains(" ft "), "US units in the message: {text}");
 }
 
+/// Asks for `goal` on the deflection; checks the design is kept and an
+/// error shown, and returns the message.
+fn refused_goal(a: &mut App, goal: &str) -> String {
+    select(a, Field::of(&cat::DEFLECTION));
+    let before = a.design.clone();
+    ask_goal(a, goal);
+    assert_eq!(a.design, before);
+    assert!(!a.dirty);
+    let (level, text) = message(a);
+    assert_eq!(level, Level::Error, "{text}");
+    text
+}
+
 #[test]
 fn an_unreachable_goal_keeps_the_design_and_says_so() {
     let mut a = app();
-    select(&mut a, Field::of(&cat::DEFLECTION));
     let before = a.design.clone();
-    press(&mut a, KeyCode::Char('g'));
-    typed(&mut a, "5000rpm");
-    press(&mut a, KeyCode::Enter);
-    assert!(a.settle(SETTLE));
-    assert_eq!(a.design, before);
-    assert!(!a.dirty);
-    let (level, text) = message(&a);
-    assert_eq!(level, Level::Error);
+    let text = refused_goal(&mut a, "5000rpm");
     assert!(
         text.contains("out of reach") && text.contains("nearest reachable"),
         "{text}"
@@ -148,15 +159,7 @@ fn an_unreachable_goal_keeps_the_design_and_says_so() {
 #[test]
 fn a_goal_without_a_unit_or_on_an_input_it_cannot_move_is_refused() {
     let mut a = app();
-    select(&mut a, Field::of(&cat::DEFLECTION));
-    let before = a.design.clone();
-    press(&mut a, KeyCode::Char('g'));
-    typed(&mut a, "30");
-    press(&mut a, KeyCode::Enter);
-    assert!(a.settle(SETTLE));
-    assert_eq!(a.design, before);
-    let (level, text) = message(&a);
-    assert_eq!(level, Level::Error);
+    let text = refused_goal(&mut a, "30");
     assert!(text.contains("no unit"), "{text}");
     // The water temperature is no input a target search adjusts.
     select(&mut a, Field::of(&cat::WATER_TEMPERATURE));
@@ -181,10 +184,7 @@ fn fill(a: &mut App, item: Item, text: &str) {
         }
         press(a, KeyCode::Down);
     }
-    a.event(&Event::Key(KeyEvent::new(
-        KeyCode::Char('u'),
-        KeyModifiers::CONTROL,
-    )));
+    clear(a);
     typed(a, text);
 }
 
@@ -272,8 +272,7 @@ fn a_search_from_the_interface_pins_a_design_that_meets_the_goals() {
 
 #[test]
 fn a_search_can_be_cancelled_and_a_bad_form_is_named() {
-    let mut a = app();
-    select(&mut a, Field::of(&cat::DEFLECTION));
+    let (mut a, _) = app_on(&cat::DEFLECTION);
     press(&mut a, KeyCode::Char('e'));
     fill(&mut a, Item::Rpm, "40..20");
     press(&mut a, KeyCode::Enter);
@@ -314,8 +313,7 @@ fn screen(app: &mut App, w: u16, h: u16) -> String {
 
 #[test]
 fn the_panels_draw_at_both_sizes() {
-    let mut a = app();
-    select(&mut a, Field::of(&cat::DEFLECTION));
+    let (mut a, _) = app_on(&cat::DEFLECTION);
     press(&mut a, KeyCode::Char('m'));
     press(&mut a, KeyCode::Char('g'));
     let s = screen(&mut a, 80, 24);
@@ -341,22 +339,29 @@ fn the_panels_draw_at_both_sizes() {
     }
 }
 
-#[test]
-fn undo_takes_back_nudges_and_typed_values_and_forgets_them_on_open() {
-    let mut a = app();
-    let nozzle = Field::of(&cat::NOZZLE_DIAMETER);
-    select(&mut a, nozzle);
-    let first = a.design.clone();
-    press(&mut a, KeyCode::Right);
-    let nudged = a.design.clone();
-    assert_ne!(nudged, first);
-    press(&mut a, KeyCode::Enter);
+/// Types `text` over the selected field's value (Enter, Ctrl+U, text, Enter).
+fn type_value(a: &mut App, text: &str) {
+    press(a, KeyCode::Enter);
+    clear(a);
+    typed(a, text);
+    press(a, KeyCode::Enter);
+}
+
+fn clear(a: &mut App) {
     a.event(&Event::Key(KeyEvent::new(
         KeyCode::Char('u'),
         KeyModifiers::CONTROL,
     )));
-    typed(&mut a, "3mm");
-    press(&mut a, KeyCode::Enter);
+}
+
+#[test]
+fn undo_takes_back_nudges_and_typed_values_and_forgets_them_on_open() {
+    let (mut a, nozzle) = app_on(&cat::NOZZLE_DIAMETER);
+    let first = a.design.clone();
+    press(&mut a, KeyCode::Right);
+    let nudged = a.design.clone();
+    assert_ne!(nudged, first);
+    type_value(&mut a, "3mm");
     assert_eq!(nozzle.number(&a.design), Some(3e-3));
     press(&mut a, KeyCode::Char('z'));
     assert_eq!(a.design, nudged);
@@ -365,13 +370,7 @@ fn undo_takes_back_nudges_and_typed_values_and_forgets_them_on_open() {
     press(&mut a, KeyCode::Char('Z'));
     assert_eq!(a.design, nudged);
     // A refused value is no edit: nothing to take back for it.
-    press(&mut a, KeyCode::Enter);
-    a.event(&Event::Key(KeyEvent::new(
-        KeyCode::Char('u'),
-        KeyModifiers::CONTROL,
-    )));
-    typed(&mut a, "-1mm");
-    press(&mut a, KeyCode::Enter);
+    type_value(&mut a, "-1mm");
     assert_eq!(a.design, nudged);
     assert_eq!(a.history.undo_steps(), 1);
     // Another file starts a fresh history.

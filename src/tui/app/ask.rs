@@ -297,22 +297,21 @@ mod tests {
 
     #[test]
     fn goals_are_read_by_their_unit() {
-        match parse_goal("30 rpm", UnitSystem::Metric) {
-            Ok(Want::Rpm(r)) => assert!((r - 30.0).abs() < 1e-9),
-            other => panic!("{other:?}"),
-        }
-        match parse_goal("11m", UnitSystem::Metric) {
-            Ok(Want::Throw(m)) => assert!((m - 11.0).abs() < 1e-12),
-            other => panic!("{other:?}"),
-        }
         // 36 ft = 10.9728 m (exact foot, 0.3048 m).
-        match parse_goal("36ft", UnitSystem::Us) {
-            Ok(Want::Throw(m)) => assert!((m - 10.9728).abs() < 1e-9),
-            other => panic!("{other:?}"),
-        }
-        match parse_goal("30rpm", UnitSystem::Us) {
-            Ok(Want::Rpm(r)) => assert!((r - 30.0).abs() < 1e-9),
-            other => panic!("{other:?}"),
+        for (text, system, want) in [
+            ("30 rpm", UnitSystem::Metric, Want::Rpm(30.0)),
+            ("30rpm", UnitSystem::Us, Want::Rpm(30.0)),
+            ("11m", UnitSystem::Metric, Want::Throw(11.0)),
+            ("36ft", UnitSystem::Us, Want::Throw(10.9728)),
+        ] {
+            let got = parse_goal(text, system);
+            let close = match (&got, want) {
+                (Ok(Want::Rpm(a)), Want::Rpm(b)) | (Ok(Want::Throw(a)), Want::Throw(b)) => {
+                    (a - b).abs() < 1e-9 * b
+                }
+                _ => false,
+            };
+            assert!(close, "{text}: {got:?}");
         }
         for bad in ["30", "", "fast", "-3rpm", "0m", "2bar"] {
             assert!(parse_goal(bad, UnitSystem::Metric).is_err(), "{bad}");

@@ -259,13 +259,12 @@ fn read_value(input: &'static Input, text: &str, system: UnitSystem) -> Result<f
 
 /// A bare positive number (`%` allowed after it).
 fn read_number(text: &str, what: &str) -> Result<f64, String> {
-    text.trim()
-        .trim_end_matches('%')
-        .trim()
-        .parse::<f64>()
-        .ok()
-        .filter(|v| v.is_finite() && *v > 0.0)
-        .ok_or_else(|| format!("{what}: a bare number above zero"))
+    let t = text.trim();
+    let t = t.strip_suffix('%').unwrap_or(t).trim();
+    match t.parse::<f64>() {
+        Ok(v) if v.is_finite() && v > 0.0 => Ok(v),
+        _ => Err(format!("{what}: a bare number above zero")),
+    }
 }
 
 /// What a filled-in form asks for.
