@@ -318,7 +318,12 @@ fn the_panels_draw_at_both_sizes() {
     press(&mut a, KeyCode::Char('g'));
     let s = screen(&mut a, 80, 24);
     assert!(s.contains("which deflection gives"), "{s}");
-    press(&mut a, KeyCode::Esc);
+    typed(&mut a, "50rpm");
+    press(&mut a, KeyCode::Enter);
+    // Until the answer is taken in, the top line says it is being found.
+    let s = screen(&mut a, 160, 48);
+    assert!(s.contains("finding deflection…"), "{s}");
+    assert!(a.settle(SETTLE));
     let s = screen(&mut a, 80, 24);
     assert!(s.contains("◆"), "the marked input shows: {s}");
     press(&mut a, KeyCode::Char('e'));

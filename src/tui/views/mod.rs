@@ -130,6 +130,12 @@ fn draw_top(app: &App, frame: &mut Frame, area: Rect) {
     if app.computing {
         spans.push(Span::styled("  computing…", t.dim()));
     }
+    if let Some(goal) = &app.ask.goal {
+        spans.push(Span::styled(
+            format!("  finding {}…", goal.field.label()),
+            t.dim(),
+        ));
+    }
     frame.render_widget(Paragraph::new(Line::from(spans)), area);
 }
 
