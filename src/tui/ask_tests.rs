@@ -342,6 +342,12 @@ fn the_panels_draw_at_both_sizes() {
         let s = screen(&mut a, w, h);
         assert!(s.contains("designs found") && s.contains("found 1"), "{s}");
     }
+    press(&mut a, KeyCode::Char('c'));
+    let s = screen(&mut a, 80, 24);
+    assert!(
+        s.contains("(pinned)") && s.contains("pinned found 1"),
+        "{s}"
+    );
 }
 
 /// Types `text` over the selected field's value (Enter, Ctrl+U, text, Enter).

@@ -7,7 +7,7 @@ use ratatui::Frame;
 
 use super::popup;
 use crate::inverse::search::{Evaluation, GoalKind, Objective};
-use crate::tui::app::{App, Found, Item, SearchForm, SearchPanel, OBJECTIVES};
+use crate::tui::app::{App, Found, Item, Level, SearchForm, SearchPanel, OBJECTIVES};
 use crate::tui::fields::Field;
 use crate::units::{format_quantity, Dimension as D, UnitSystem};
 
@@ -92,6 +92,16 @@ pub fn draw(app: &App, frame: &mut Frame, panel: &SearchPanel) {
             None => (" designs found ", vec![Line::raw(" nothing found yet")]),
         },
     };
+    let mut lines = lines;
+    // The message line may be under the box: its news goes in the box too.
+    if let Some(m) = &app.message {
+        let style = match m.level {
+            Level::Error => app.theme.error(),
+            Level::Info => app.theme.good(),
+        };
+        lines.push(Line::raw(""));
+        lines.push(Line::styled(format!(" {}", m.text), style));
+    }
     let help: String = keys(panel)
         .iter()
         .map(|(k, what)| format!("{k} {what}"))
