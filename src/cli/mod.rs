@@ -5,16 +5,20 @@
 //! problem worth a script's attention (stalls, no equilibrium); 2 bad input,
 //! with a message naming the file, line and field or the argument.
 
+mod check;
+mod compare;
 mod fit;
-mod inverse;
 mod layout;
 mod log;
 mod report;
 mod search;
 mod solve;
+mod sweep;
 mod table;
+mod target;
 pub mod text;
 mod throw;
+mod values;
 
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -541,7 +545,7 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             at,
             out: o,
         } => {
-            let args = inverse::CheckArgs {
+            let args = check::CheckArgs {
                 pressure,
                 rpm,
                 seconds_per_turn,
@@ -555,7 +559,7 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
                 log,
                 at,
             };
-            inverse::run_check(&file, &args, o, out)
+            check::run_check(&file, &args, o, out)
         }
         Command::Fit {
             file,
@@ -605,14 +609,14 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             } else {
                 adjust
             };
-            let args = inverse::TargetArgs {
+            let args = target::TargetArgs {
                 rpm,
                 throw,
                 adjust,
                 out: written,
                 strict,
             };
-            inverse::run_target(&file, &args, output, out)
+            target::run_target(&file, &args, output, out)
         }
         Command::Sweep {
             file,
@@ -621,9 +625,9 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             layout,
             show,
             out: o,
-        } => inverse::run_sweep(
+        } => sweep::run_sweep(
             &file,
-            &inverse::SweepArgs {
+            &sweep::SweepArgs {
                 vary,
                 points,
                 layout,
@@ -632,7 +636,7 @@ pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
             o,
             out,
         ),
-        Command::Compare { files, out: o } => inverse::run_compare(&files, o, out),
+        Command::Compare { files, out: o } => compare::run_compare(&files, o, out),
         Command::Report {
             file,
             out: page,
