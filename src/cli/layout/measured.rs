@@ -5,15 +5,14 @@ use std::path::Path;
 
 use serde::Serialize;
 
-use crate::audit::{
-    audit, interpret, leg_pattern, read_catch_cans, AuditReport, CanNote, CatchSet, ModelSide,
-};
 use crate::cli::CliError;
+use crate::inverse::audit::{audit, interpret, leg_pattern, AuditReport, CanNote, ModelSide};
 use crate::inverse::leg::{fit_leg, LegFit};
 use crate::physics::coverage::{flight_env, layout_overlap, HeadThrow};
 use crate::physics::design::{Design, Layout};
 use crate::physics::layout::{LayoutResult, OverlapOptions};
 use crate::physics::pattern::PatternOptions;
+use crate::scenario::cans::{read_catch_cans, CatchCanError, CatchSet};
 
 #[derive(Debug, Serialize)]
 pub(super) struct MeasuredJson {
@@ -107,7 +106,7 @@ pub(super) fn rate_catch_cans(
     layout: &Layout,
     model: &LayoutResult,
 ) -> Result<Measured, CliError> {
-    let usage = |e: crate::audit::AuditError| CliError::Usage(e.to_string());
+    let usage = |e: CatchCanError| CliError::Usage(e.to_string());
     let data = read_catch_cans(csv_path).map_err(usage)?;
     let report = audit(&data, Some(layout), &OverlapOptions::default()).map_err(usage)?;
     let notes = interpret(
