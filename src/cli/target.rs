@@ -48,6 +48,25 @@ struct Resulting {
     warnings: Vec<String>,
 }
 
+impl Resulting {
+    /// The `  then: …` line of the text report: speed, wetted radius, start
+    /// margin and flow of the adjusted design, "—" where there is none.
+    fn then_line(&self, units: UnitSystem) -> String {
+        let opt = |v: Option<String>| v.unwrap_or_else(|| "—".into());
+        format!(
+            "  then: {} · wetted radius {} · start margin {} · flow {}",
+            opt(self.rpm.map(|r| format!("{r:.1} rpm"))),
+            opt(self
+                .wetted_radius_m
+                .map(|r| format_quantity(D::Length, r, units))),
+            opt(self.start_margin.map(|m| format!("{m:.2}"))),
+            opt(self
+                .total_flow_m3_s
+                .map(|q| format_quantity(D::Flow, q, units))),
+        )
+    }
+}
+
 fn resulting(result: &TargetResult, units: UnitSystem) -> Resulting {
     let report = &result.report;
     let (rpm_op, margin, flow) = crate::inverse::sweep::summarize(report);
@@ -294,19 +313,7 @@ pub fn run_target(
                     result.achieved.map_or("no running speed".into(), what)
                 )?;
             }
-            let opt = |v: Option<String>| v.unwrap_or_else(|| "—".into());
-            writeln!(
-                out,
-                "  then: {} · wetted radius {} · start margin {} · flow {}",
-                opt(res.rpm.map(|r| format!("{r:.1} rpm"))),
-                opt(res
-                    .wetted_radius_m
-                    .map(|r| format_quantity(D::Length, r, units))),
-                opt(res.start_margin.map(|m| format!("{m:.2}"))),
-                opt(res
-                    .total_flow_m3_s
-                    .map(|q| format_quantity(D::Flow, q, units))),
-            )?;
+            writeln!(out, "{}", res.then_line(units))?;
             if let Some(k) = res.rpm_per_unit {
                 // rpm per display unit of the adjusted input.
                 let (per, unit) = match parameter_dimension(adjust) {
@@ -399,7 +406,6 @@ fn run_two_targets(
             writeln!(out)?;
         }
         _ => {
-            let opt = |v: Option<String>| v.unwrap_or_else(|| "—".into());
             writeln!(
                 out,
                 "{}: {} {} (was {}) and {} {} (was {}) {} {:.1} rpm and {}",
@@ -414,18 +420,7 @@ fn run_two_targets(
                 rpm,
                 format_quantity(D::Length, throw_m, units),
             )?;
-            writeln!(
-                out,
-                "  then: {} · wetted radius {} · start margin {} · flow {}",
-                opt(res.rpm.map(|r| format!("{r:.1} rpm"))),
-                opt(res
-                    .wetted_radius_m
-                    .map(|r| format_quantity(D::Length, r, units))),
-                opt(res.start_margin.map(|m| format!("{m:.2}"))),
-                opt(res
-                    .total_flow_m3_s
-                    .map(|q| format_quantity(D::Flow, q, units))),
-            )?;
+            writeln!(out, "{}", res.then_line(units))?;
             for w in &res.warnings {
                 writeln!(out, "  warning: {w}")?;
             }
