@@ -90,6 +90,62 @@ pub fn load_design(path: &Path) -> Result<Design, CliError> {
     Ok(scenario.to_design()?)
 }
 
+/// A scenario file read for a command that may write a changed design back
+/// over it (`--out`): its text, kept for [`save_design_over`], and the
+/// scenario read from it.
+pub fn open_for_edit(path: &Path) -> Result<(String, scenario::Scenario), CliError> {
+    let original = std::fs::read_to_string(path).map_err(|io| ScenarioError::Read {
+        path: path.to_path_buf(),
+        io,
+    })?;
+    let source = scenario::load_str(&original, &path.display().to_string())?;
+    Ok((original, source))
+}
+
+/// Write `design` to `out` over `original`, the text of the scenario file
+/// `from` it was read from: only the values that changed are edited, the
+/// comments and the `notes` (the user's, kept as written) stay. When the text
+/// cannot be edited in place the file is written anew, and a note on stderr
+/// says so. Returns the path written, for the report.
+pub fn save_design_over(
+    out: &Path,
+    from: &Path,
+    original: &str,
+    notes: &str,
+    design: &Design,
+    units: UnitSystem,
+) -> Result<String, CliError> {
+    let new = scenario::Scenario::from_design(design, units, notes);
+    let saved = scenario::save_scenario(out, Some(original), &new)?;
+    if let scenario::Written::Rewritten(why) = &saved.written {
+        // Rare (the text could not be edited in place): say so, as the
+        // file's comments did not survive.
+        eprintln!(
+            "note: {} was written anew, without the comments of {}: {why}",
+            out.display(),
+            from.display()
+        );
+    }
+    Ok(out.display().to_string())
+}
+
+/// A progress bar on stderr for `len` steps counted in `what` (`points`,
+/// `starts`), when stderr is a terminal; `None` otherwise.
+pub fn progress_bar(len: usize, what: &str) -> Option<indicatif::ProgressBar> {
+    use std::io::IsTerminal;
+    if !std::io::stderr().is_terminal() {
+        return None;
+    }
+    let bar = indicatif::ProgressBar::new(len as u64);
+    bar.set_style(
+        indicatif::ProgressStyle::with_template(&format!(
+            "{{bar:40}} {{pos}}/{{len}} {what}, {{eta}} left"
+        ))
+        .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+    );
+    Some(bar)
+}
+
 /// Run a parsed command line, writing reports to `out`.
 pub fn run(command: Command, out: &mut dyn Write) -> Result<Outcome, CliError> {
     match command {

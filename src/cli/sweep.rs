@@ -1,11 +1,11 @@
 //! `sweep`: one or two design inputs over ranges, a row (or a grid cell) per point.
 
-use std::io::{IsTerminal, Write};
+use std::io::Write;
 use std::path::Path;
 
 use super::text::{csv_number, sig, TextTable};
 use super::values::{named_range, parameter_dimension, parameter_value, NamedRange};
-use super::{load_design, CliError, Format, Outcome, Output, ShowArg};
+use super::{load_design, progress_bar, CliError, Format, Outcome, Output, ShowArg};
 use crate::catalogue::{self};
 use crate::inverse::sweep::{sweep_with, SweepAxis};
 use crate::physics::balance::SpinReport;
@@ -182,16 +182,7 @@ pub fn run_sweep(
         )));
     }
     let total: usize = axes.iter().map(|a| a.steps).product();
-    let bar = if std::io::stderr().is_terminal() {
-        let bar = indicatif::ProgressBar::new(total as u64);
-        bar.set_style(
-            indicatif::ProgressStyle::with_template("{bar:40} {pos}/{len} points, {eta} left")
-                .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
-        );
-        Some(bar)
-    } else {
-        None
-    };
+    let bar = progress_bar(total, "points");
     let progress = |done: usize, _total: usize| {
         if let Some(b) = &bar {
             b.set_position(done as u64);

@@ -9,11 +9,13 @@ use serde::Serialize;
 use super::check::throw_of;
 use super::text::{csv_number, sig};
 use super::values::parameter_dimension;
-use super::{positive_quantity, positive_rpm, CliError, Format, Outcome, Output};
+use super::{
+    open_for_edit, positive_quantity, positive_rpm, save_design_over, CliError, Format, Outcome,
+    Output,
+};
 use crate::catalogue::{self, Input};
 use crate::inverse::target::{target, Goal, TargetResult};
 use crate::physics::design::Design;
-use crate::scenario::{self, save_scenario, Scenario};
 use crate::units::{csv_key, format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
 
 /// What `target` aims at.
@@ -130,12 +132,10 @@ struct TargetJson {
     #[serde(skip_serializing_if = "Option::is_none")]
     achieved_throw_m: Option<Option<f64>>,
     reachable: bool,
-    rpm: Option<f64>,
-    wetted_radius_m: Option<f64>,
-    start_margin: Option<f64>,
-    total_flow_m3_s: Option<f64>,
-    rpm_per_unit: Option<f64>,
-    warnings: Vec<String>,
+    /// rpm, wetted_radius_m, start_margin, total_flow_m3_s, rpm_per_unit,
+    /// warnings: the adjusted design, keys in that order.
+    #[serde(flatten)]
+    then: Resulting,
     written_to: Option<String>,
 }
 
@@ -156,11 +156,7 @@ pub fn run_target(
     out: &mut dyn Write,
 ) -> Result<Outcome, CliError> {
     // The file's text is kept: `--out` edits it in place (comments and notes kept).
-    let original = std::fs::read_to_string(path).map_err(|io| scenario::ScenarioError::Read {
-        path: path.to_path_buf(),
-        io,
-    })?;
-    let source = scenario::load_str(&original, &path.display().to_string())?;
+    let (original, source) = open_for_edit(path)?;
     let design = source.to_design()?;
     if let Some((first, second)) = args.adjust.split_once(',') {
         return run_two_targets(&design, args, first.trim(), second.trim(), o, out);
@@ -194,22 +190,14 @@ pub fn run_target(
     let units: UnitSystem = o.units.into();
     let res = resulting(&result, units);
     let written = match &args.out {
-        Some(p) => {
-            // The notes are the user's: kept as written. Only the adjusted
-            // value's text changes in the file.
-            let new = Scenario::from_design(&result.design, units, &source.notes);
-            let saved = save_scenario(p, Some(&original), &new)?;
-            if let scenario::Written::Rewritten(why) = &saved.written {
-                // Rare (the text could not be edited in place): say so, as
-                // the file's comments did not survive.
-                eprintln!(
-                    "note: {} was written anew, without the comments of {}: {why}",
-                    p.display(),
-                    path.display()
-                );
-            }
-            Some(p.display().to_string())
-        }
+        Some(p) => Some(save_design_over(
+            p,
+            path,
+            &original,
+            &source.notes,
+            &result.design,
+            units,
+        )?),
         None => None,
     };
     match o.format {
@@ -222,12 +210,7 @@ pub fn run_target(
                 achieved_rpm: rpm_goal.then_some(result.achieved),
                 achieved_throw_m: (!rpm_goal).then_some(result.achieved),
                 reachable: result.reachable,
-                rpm: res.rpm,
-                wetted_radius_m: res.wetted_radius_m,
-                start_margin: res.start_margin,
-                total_flow_m3_s: res.total_flow_m3_s,
-                rpm_per_unit: res.rpm_per_unit,
-                warnings: res.warnings.clone(),
+                then: res.clone(),
                 written_to: written,
             };
             serde_json::to_writer_pretty(&mut *out, &j).map_err(std::io::Error::from)?;
