@@ -15,11 +15,10 @@
 use std::path::{Path, PathBuf};
 use std::time::{Duration, Instant};
 
-use ratatui::crossterm::event::{
-    Event, KeyCode, KeyEvent, KeyEventKind, KeyModifiers, MouseButton, MouseEvent, MouseEventKind,
-};
+use ratatui::crossterm::event::{Event, KeyEventKind, MouseButton, MouseEvent, MouseEventKind};
 use ratatui::layout::{Position, Rect};
 
+mod dispatch;
 mod readings;
 
 pub use readings::{parse_turn_times, UnitReadings};
@@ -700,113 +699,6 @@ impl App {
         }
     }
 
-    fn key(&mut self, k: &KeyEvent) {
-        if k.modifiers.contains(KeyModifiers::CONTROL) && k.code == KeyCode::Char('c') {
-            self.ask_quit();
-            return;
-        }
-        match std::mem::replace(&mut self.mode, Mode::Normal) {
-            Mode::Normal => self.key_normal(k),
-            Mode::Typing(input) => self.key_typing(k, input),
-            Mode::Help(scroll) => self.key_help(k, scroll),
-            Mode::Picker(p) => self.key_picker(k, p),
-            Mode::Confirm(c) => self.key_confirm(k, c),
-        }
-    }
-
-    fn key_help(&mut self, k: &KeyEvent, scroll: u16) {
-        self.mode = match k.code {
-            KeyCode::Down | KeyCode::Char('j') => Mode::Help(scroll.saturating_add(1)),
-            KeyCode::Up | KeyCode::Char('k') => Mode::Help(scroll.saturating_sub(1)),
-            KeyCode::PageDown => Mode::Help(scroll.saturating_add(10)),
-            KeyCode::PageUp => Mode::Help(scroll.saturating_sub(10)),
-            _ => Mode::Normal,
-        };
-    }
-
-    fn key_normal(&mut self, k: &KeyEvent) {
-        let shift = k.modifiers.contains(KeyModifiers::SHIFT);
-        // A new key press clears an old message.
-        self.message = None;
-        match k.code {
-            KeyCode::Up => self.move_selection(false, 1),
-            KeyCode::Down => self.move_selection(true, 1),
-            KeyCode::Home => {
-                self.selected = self.first_field_from(0, true);
-                self.keep_selection_visible();
-            }
-            KeyCode::End => {
-                self.selected = self.first_field_from(self.rows.len().saturating_sub(1), false);
-                self.keep_selection_visible();
-            }
-            KeyCode::Left | KeyCode::Right => {
-                let finer = k
-                    .modifiers
-                    .intersects(KeyModifiers::ALT | KeyModifiers::CONTROL);
-                let stride = if finer {
-                    Stride::Finer
-                } else if shift {
-                    Stride::Coarse
-                } else {
-                    Stride::Fine
-                };
-                self.nudge(k.code == KeyCode::Right, stride);
-            }
-            KeyCode::Enter => self.start_typing(),
-            KeyCode::Tab => self.set_view((self.view.index() + 1) % View::ALL.len()),
-            KeyCode::BackTab => {
-                self.set_view((self.view.index() + View::ALL.len() - 1) % View::ALL.len())
-            }
-            KeyCode::PageDown => self.pane_scroll = self.pane_scroll.saturating_add(5),
-            KeyCode::PageUp => self.pane_scroll = self.pane_scroll.saturating_sub(5),
-            KeyCode::Char(c) => self.key_char(c),
-            KeyCode::Esc => {}
-            _ => {}
-        }
-    }
-
-    fn key_char(&mut self, c: char) {
-        match c {
-            '1'..='5' => self.set_view(c as usize - '1' as usize),
-            '?' => self.mode = Mode::Help(0),
-            'u' => {
-                self.units = self.units.toggled();
-                self.info(format!("showing {} units", self.units_word()));
-            }
-            's' => self.save(None, false),
-            'S' => self.start_save_as(),
-            'o' => self.open_picker(),
-            'c' => self.pin_current(),
-            'q' => self.ask_quit(),
-            '+' => self.add_arm(),
-            '-' => self.remove_arm(),
-            '*' => self.copy_arm_to_all(),
-            'a' => self.toggle_arms(),
-            'x' if self.view == View::Compare => self.unpin(),
-            '[' | ']' if self.view == View::Compare => self.select_pin(c == ']'),
-            '<' | '>' if self.view == View::Compare => self.move_pin(c == '>'),
-            'p' if self.view == View::Field => {
-                self.start_input(InputTarget::Measured(Measure::Pressure))
-            }
-            'r' if self.view == View::Field => {
-                self.start_input(InputTarget::Measured(Measure::Rotation))
-            }
-            'f' if self.view == View::Field => {
-                self.start_input(InputTarget::Measured(Measure::Flow))
-            }
-            't' if self.view == View::Field => {
-                self.start_input(InputTarget::Measured(Measure::Throw))
-            }
-            'n' if self.view == View::Field => self.add_reading_row(),
-            'x' if self.view == View::Field => self.drop_reading_row(),
-            'd' if self.view == View::Field => {
-                self.start_input(InputTarget::Measured(Measure::Coast))
-            }
-            'k' if self.view == View::Field => self.toggle_keep_readings(),
-            _ => {}
-        }
-    }
-
     fn units_word(&self) -> &'static str {
         match self.units {
             UnitSystem::Metric => "metric",
@@ -972,51 +864,6 @@ impl App {
             slug
         };
         PathBuf::from(format!("{slug}.ron"))
-    }
-
-    fn key_typing(&mut self, k: &KeyEvent, mut input: Input) {
-        match k.code {
-            KeyCode::Esc => {
-                self.message = None;
-            }
-            KeyCode::Enter => self.finish_input(input),
-            KeyCode::Backspace => {
-                input.text.pop();
-                self.mode = Mode::Typing(input);
-            }
-            KeyCode::Char('u') if k.modifiers.contains(KeyModifiers::CONTROL) => {
-                input.text.clear();
-                self.mode = Mode::Typing(input);
-            }
-            KeyCode::Char(c) => {
-                if input.text.chars().count() < 200 {
-                    input.text.push(c);
-                }
-                self.mode = Mode::Typing(input);
-            }
-            _ => self.mode = Mode::Typing(input),
-        }
-    }
-
-    fn finish_input(&mut self, input: Input) {
-        match input.target {
-            InputTarget::Field(f) => {
-                self.type_value(f, &input.text);
-            }
-            InputTarget::SaveAs => {
-                let t = input.text.trim();
-                if t.is_empty() {
-                    self.error("no file name given; not saved");
-                } else {
-                    let mut p = PathBuf::from(t);
-                    if p.extension().is_none() {
-                        p.set_extension("ron");
-                    }
-                    self.save(Some(p), false);
-                }
-            }
-            InputTarget::Measured(m) => self.type_measured(m, &input.text),
-        }
     }
 
     /// Sets a field from typed text (with its unit); refuses with the reason.
@@ -1235,41 +1082,6 @@ impl App {
         }
     }
 
-    fn key_confirm(&mut self, k: &KeyEvent, c: Confirm) {
-        let yes = matches!(k.code, KeyCode::Char('y'));
-        let no = matches!(k.code, KeyCode::Esc | KeyCode::Char('n'));
-        match c {
-            Confirm::QuitUnsaved => match k.code {
-                KeyCode::Char('s') => {
-                    self.save(None, false);
-                    if !self.dirty && self.mode == Mode::Normal {
-                        self.quit = true;
-                    }
-                }
-                KeyCode::Char('y') | KeyCode::Char('q') => self.quit = true,
-                _ if no => {}
-                _ => self.mode = Mode::Confirm(c),
-            },
-            Confirm::OpenUnsaved(p) => {
-                if yes {
-                    self.open_file(&p);
-                } else if !no {
-                    self.mode = Mode::Confirm(Confirm::OpenUnsaved(p));
-                }
-            }
-            Confirm::OverwriteChanged(p) | Confirm::OverwriteExisting(p) if yes => {
-                self.save(Some(p), true)
-            }
-            other => {
-                if no {
-                    self.info("not saved");
-                } else {
-                    self.mode = Mode::Confirm(other);
-                }
-            }
-        }
-    }
-
     fn start_save_as(&mut self) {
         self.start_input(InputTarget::SaveAs);
     }
@@ -1328,35 +1140,6 @@ impl App {
             return;
         }
         self.mode = Mode::Picker(Picker { files, selected: 0 });
-    }
-
-    fn key_picker(&mut self, k: &KeyEvent, mut p: Picker) {
-        match k.code {
-            KeyCode::Esc => {}
-            KeyCode::Up => {
-                p.selected = p.selected.saturating_sub(1);
-                self.mode = Mode::Picker(p);
-            }
-            KeyCode::Down => {
-                p.selected = (p.selected + 1).min(p.files.len().saturating_sub(1));
-                self.mode = Mode::Picker(p);
-            }
-            KeyCode::Enter => {
-                if let Some(f) = p.files.get(p.selected).cloned() {
-                    if self.dirty {
-                        self.mode = Mode::Confirm(Confirm::OpenUnsaved(f));
-                    } else {
-                        self.open_file(&f);
-                    }
-                }
-            }
-            KeyCode::Char('c') => {
-                if let Some(f) = p.files.get(p.selected).cloned() {
-                    self.pin_file(&f);
-                }
-            }
-            _ => self.mode = Mode::Picker(p),
-        }
     }
 
     /// Replaces the design with a file's (the unit system and view stay).

@@ -1111,3 +1111,48 @@ fn the_starter_and_every_shipped_scenario_open_with_their_arms_together() {
     }
     assert!(n >= 4, "{n} scenarios found");
 }
+
+#[test]
+fn every_key_of_the_table_dispatches_in_its_place_without_panicking() {
+    use super::app::{Input, InputTarget, Picker};
+    use super::keys::{Scope, KEYS};
+    let dir = tempfile::tempdir().unwrap();
+    let mut a = app();
+    a.base_dir = dir.path().to_path_buf();
+    a.path = Some(dir.path().join("design.ron"));
+    for b in KEYS {
+        let (mode, view) = match b.scope {
+            Scope::Everywhere | Scope::Normal => (Mode::Normal, View::Balance),
+            Scope::InView(v) => (Mode::Normal, v),
+            Scope::Typing => (
+                Mode::Typing(Input {
+                    target: InputTarget::SaveAs,
+                    text: dir.path().join("typed.ron").display().to_string(),
+                }),
+                View::Balance,
+            ),
+            Scope::Help => (Mode::Help(3), View::Balance),
+            Scope::Picker => (
+                Mode::Picker(Picker {
+                    files: vec![dir.path().join("missing.ron")],
+                    selected: 0,
+                }),
+                View::Balance,
+            ),
+            Scope::QuitQuestion => (Mode::Confirm(Confirm::QuitUnsaved), View::Balance),
+            Scope::Question => (
+                Mode::Confirm(Confirm::OverwriteExisting(dir.path().join("out.ron"))),
+                View::Balance,
+            ),
+        };
+        for k in b.keys {
+            a.mode = mode.clone();
+            a.view = view;
+            a.quit = false;
+            a.event(&Event::Key(k.example()));
+            // The screen after it draws too.
+            screen(&mut a, 80, 24);
+        }
+    }
+    assert!(a.settle(SETTLE));
+}
