@@ -3,11 +3,16 @@
 
 use std::path::PathBuf;
 
-use ratatui::crossterm::event::{KeyCode, KeyEvent};
+use ratatui::crossterm::event::{
+    Event, KeyCode, KeyEvent, KeyEventKind, MouseButton, MouseEvent, MouseEventKind,
+};
+use ratatui::layout::Position;
 
 use super::{App, Confirm, Input, InputTarget, Mode, Picker, View};
+use crate::tui::fields::Row;
 use crate::tui::fields::{self, Stride};
 use crate::tui::keys::{self, Action, Context, Scope};
+use crate::tui::layout;
 
 impl App {
     /// The key table's place for the present keyboard mode.
@@ -225,5 +230,67 @@ fn scroll_by(scroll: u16, k: &KeyEvent, by: u16) -> u16 {
         scroll.saturating_sub(by)
     } else {
         scroll.saturating_add(by)
+    }
+}
+impl App {
+    /// Handles one terminal event.
+    pub fn event(&mut self, ev: &Event) {
+        match ev {
+            Event::Key(k) if k.kind == KeyEventKind::Press => self.key(k),
+            Event::Mouse(m) => self.mouse(m),
+            Event::Resize(w, h) => {
+                self.size = (*w, *h);
+                self.keep_selection_visible();
+            }
+            _ => {}
+        }
+    }
+
+    pub(super) fn mouse(&mut self, m: &MouseEvent) {
+        let at = Position::new(m.column, m.row);
+        let a = self.areas();
+        match m.kind {
+            MouseEventKind::Down(MouseButton::Left) => {
+                if !matches!(self.mode, Mode::Normal) {
+                    return;
+                }
+                if a.list.contains(at) {
+                    let i = self.list_offset + (m.row - a.list.y) as usize;
+                    if matches!(self.rows.get(i), Some(Row::Field(_))) {
+                        self.selected = i;
+                        self.message = None;
+                    }
+                } else if a.tabs.contains(at) {
+                    if let Some(i) = layout::tab_at(a.tabs, m.column) {
+                        self.set_view(i);
+                    }
+                }
+            }
+            MouseEventKind::ScrollDown | MouseEventKind::ScrollUp => {
+                let down = m.kind == MouseEventKind::ScrollDown;
+                if let Mode::Help(s) = self.mode {
+                    self.mode = Mode::Help(if down {
+                        s.saturating_add(2)
+                    } else {
+                        s.saturating_sub(2)
+                    });
+                } else if a.list.contains(at) || a.left.contains(at) {
+                    let h = self.list_height();
+                    let max = self.rows.len().saturating_sub(h);
+                    self.list_offset = if down {
+                        (self.list_offset + 3).min(max)
+                    } else {
+                        self.list_offset.saturating_sub(3)
+                    };
+                } else if a.view.contains(at) {
+                    self.pane_scroll = if down {
+                        self.pane_scroll.saturating_add(3)
+                    } else {
+                        self.pane_scroll.saturating_sub(3)
+                    };
+                }
+            }
+            _ => {}
+        }
     }
 }

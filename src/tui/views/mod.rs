@@ -25,6 +25,7 @@ use super::layout;
 use crate::physics::balance::{rpm, SpinStatus};
 use crate::units::{format_quantity, Dimension as D};
 
+pub use balance::table as balance_table;
 pub use compare::differences_per_design as compare_differences;
 pub use help::help_lines;
 
