@@ -13,6 +13,7 @@
 
 pub mod app;
 pub mod fields;
+pub mod keys;
 pub mod layout;
 pub mod theme;
 pub mod views;
@@ -101,7 +102,5 @@ fn event_loop(
     Ok(())
 }
 
-#[cfg(test)]
-mod ask_tests;
 #[cfg(test)]
 mod tests;

@@ -11,7 +11,7 @@
 //! finishes the starts it has under way in the background and its answer is
 //! dropped; the interface is free at once.
 
-use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
+use ratatui::crossterm::event::{KeyCode, KeyEvent};
 
 use super::task::{Poll, Task};
 use super::{App, Mode};
@@ -23,6 +23,7 @@ use crate::inverse::target;
 use crate::physics::balance::rpm;
 use crate::physics::design::Design;
 use crate::tui::fields::{self, Field};
+use crate::tui::keys::{Action, Scope};
 use crate::units::{self, Dimension as D, UnitSystem};
 
 /// Most inputs a search from the interface frees at once.
@@ -114,6 +115,17 @@ pub enum SearchPanel {
     Running,
     /// The designs found, the highlighted one.
     Results(usize),
+}
+
+impl SearchPanel {
+    /// The key table's place for the panel.
+    pub fn scope(&self) -> Scope {
+        match self {
+            SearchPanel::Form(_) => Scope::SearchForm,
+            SearchPanel::Running => Scope::SearchRunning,
+            SearchPanel::Results(_) => Scope::SearchResults,
+        }
+    }
 }
 
 /// A search running.
@@ -424,64 +436,50 @@ impl App {
         self.mode = Mode::Search(SearchPanel::Form(form));
     }
 
-    /// Keys while the search panel is shown.
-    pub(super) fn key_search(&mut self, k: &KeyEvent, panel: SearchPanel) {
+    /// Keys while the search panel is shown (`a`: the key table's action).
+    pub(super) fn key_search(&mut self, a: Option<Action>, k: &KeyEvent, panel: SearchPanel) {
         match panel {
-            SearchPanel::Form(form) => self.key_form(k, form),
-            SearchPanel::Running => {
-                if k.code == KeyCode::Esc {
-                    // The thread's answer is dropped when it comes.
-                    if let Some(job) = self.ask.search.take() {
-                        self.ask.last_form = Some(job.form);
-                    }
-                    self.info("search cancelled; the design is as it was");
-                } else {
-                    self.mode = Mode::Search(SearchPanel::Running);
+            SearchPanel::Form(form) => self.key_form(a, k, form),
+            SearchPanel::Running if a == Some(Action::CancelSearch) => {
+                // The thread's answer is dropped when it comes.
+                if let Some(job) = self.ask.search.take() {
+                    self.ask.last_form = Some(job.form);
                 }
+                self.info("search cancelled; the design is as it was");
             }
-            SearchPanel::Results(sel) => self.key_results(k, sel),
+            SearchPanel::Running => self.mode = Mode::Search(SearchPanel::Running),
+            SearchPanel::Results(sel) => self.key_results(a, k, sel),
         }
     }
 
-    fn key_form(&mut self, k: &KeyEvent, mut form: SearchForm) {
-        let n = form.lines.len();
-        let ctrl = k.modifiers.contains(KeyModifiers::CONTROL);
-        match k.code {
-            KeyCode::Esc => {
+    fn key_form(&mut self, a: Option<Action>, k: &KeyEvent, mut form: SearchForm) {
+        let n = form.lines.len().max(1);
+        let back = matches!(k.code, KeyCode::Up | KeyCode::BackTab | KeyCode::Left);
+        let line = form.lines.get_mut(form.selected);
+        match (a, line) {
+            (Some(Action::CloseSearch), _) => {
                 self.ask.last_form = Some(form);
                 return;
             }
-            KeyCode::Enter => {
+            (Some(Action::RunSearch), _) => {
                 self.start_search(form);
                 return;
             }
-            KeyCode::Up | KeyCode::BackTab => form.selected = (form.selected + n - 1) % n.max(1),
-            KeyCode::Down | KeyCode::Tab => form.selected = (form.selected + 1) % n.max(1),
-            KeyCode::Left | KeyCode::Right => {
-                if let Some(line) = form.lines.get_mut(form.selected) {
-                    if let Item::Objective(o) = line.item {
-                        let m = OBJECTIVES.len();
-                        let next = if k.code == KeyCode::Right {
-                            o + 1
-                        } else {
-                            o + m - 1
-                        };
-                        line.item = Item::Objective(next % m);
-                    }
+            (Some(Action::FormLine), _) => {
+                form.selected = (form.selected + if back { n - 1 } else { 1 }) % n;
+            }
+            (Some(Action::FormObjective), Some(line)) => {
+                if let Item::Objective(o) = line.item {
+                    let m = OBJECTIVES.len();
+                    line.item = Item::Objective((o + if back { m - 1 } else { 1 }) % m);
                 }
             }
-            KeyCode::Char('u') if ctrl => {
-                if let Some(line) = form.lines.get_mut(form.selected) {
-                    line.text.clear();
-                }
+            (Some(Action::ClearTyping), Some(line)) => line.text.clear(),
+            (Some(Action::DeleteChar), Some(line)) => {
+                line.text.pop();
             }
-            KeyCode::Backspace => {
-                if let Some(line) = form.lines.get_mut(form.selected) {
-                    line.text.pop();
-                }
-            }
-            KeyCode::Char(c) => {
-                if let Some(line) = form.lines.get_mut(form.selected) {
+            (Some(Action::TypeChar), Some(line)) => {
+                if let KeyCode::Char(c) = k.code {
                     if !matches!(line.item, Item::Objective(_)) && line.text.chars().count() < 60 {
                         line.text.push(c);
                     }
@@ -568,7 +566,7 @@ impl App {
         true
     }
 
-    fn key_results(&mut self, k: &KeyEvent, sel: usize) {
+    fn key_results(&mut self, a: Option<Action>, k: &KeyEvent, sel: usize) {
         let n = self.ask.found.as_ref().map_or(0, |f| f.candidates.len());
         let chosen = self
             .ask
@@ -576,39 +574,32 @@ impl App {
             .as_ref()
             .and_then(|f| f.candidates.get(sel))
             .cloned();
-        match k.code {
-            KeyCode::Esc => return,
-            KeyCode::Up => {
-                self.mode = Mode::Search(SearchPanel::Results(sel.saturating_sub(1)));
-                return;
+        let mut next = Mode::Search(SearchPanel::Results(sel));
+        match (a, chosen) {
+            (Some(Action::CloseSearch), _) => next = Mode::Normal,
+            (Some(Action::ResultMove), _) => {
+                let to = if k.code == KeyCode::Up {
+                    sel.saturating_sub(1)
+                } else {
+                    (sel + 1).min(n.saturating_sub(1))
+                };
+                next = Mode::Search(SearchPanel::Results(to));
             }
-            KeyCode::Down => {
-                let next = (sel + 1).min(n.saturating_sub(1));
-                self.mode = Mode::Search(SearchPanel::Results(next));
-                return;
-            }
-            KeyCode::Char('c') => {
-                if let Some(c) = chosen {
-                    self.pin(c.label, c.design);
+            (Some(Action::PinFound), Some(c)) => self.pin(c.label, c.design),
+            (Some(Action::ApplyFound), Some(c)) => {
+                next = Mode::Normal;
+                if self.apply(c.design) {
+                    self.info(format!("{} applied to the design; z undoes", c.label));
                 }
             }
-            KeyCode::Enter => {
-                if let Some(c) = chosen {
-                    if self.apply(c.design) {
-                        self.info(format!("{} applied to the design; z undoes", c.label));
-                    }
-                    return;
-                }
-            }
-            KeyCode::Char('e') => {
+            (Some(Action::BackToGoals), _) => {
                 if let Some(form) = self.ask.last_form.clone() {
-                    self.mode = Mode::Search(SearchPanel::Form(form));
-                    return;
+                    next = Mode::Search(SearchPanel::Form(form));
                 }
             }
             _ => {}
         }
-        self.mode = Mode::Search(SearchPanel::Results(sel));
+        self.mode = next;
     }
 }
 

@@ -23,27 +23,6 @@ pub fn goal_prompt(app: &App, f: Field) -> String {
     )
 }
 
-/// The keys of the bottom line while the panel is shown.
-pub fn keys(panel: &SearchPanel) -> Vec<(&'static str, &'static str)> {
-    match panel {
-        SearchPanel::Form(_) => vec![
-            ("↑↓", "line"),
-            ("type", "edit"),
-            ("←→", "objective"),
-            ("Enter", "search"),
-            ("Esc", "close"),
-        ],
-        SearchPanel::Running => vec![("Esc", "cancel")],
-        SearchPanel::Results(_) => vec![
-            ("↑↓", "choose"),
-            ("c", "pin for Compare"),
-            ("Enter", "apply"),
-            ("e", "goals"),
-            ("Esc", "close"),
-        ],
-    }
-}
-
 /// What an objective makes largest, in words.
 pub fn objective_words(o: Objective) -> &'static str {
     match o {
@@ -102,14 +81,9 @@ pub fn draw(app: &App, frame: &mut Frame, panel: &SearchPanel) {
         lines.push(Line::raw(""));
         lines.push(Line::styled(format!(" {}", m.text), style));
     }
-    let help: String = keys(panel)
-        .iter()
-        .map(|(k, what)| format!("{k} {what}"))
-        .collect::<Vec<_>>()
-        .join(" · ");
     let block = Block::bordered()
         .title(Line::from(title))
-        .title_bottom(Line::from(format!(" {help} ")))
+        .title_bottom(Line::from(super::keys_line(app)))
         .border_style(app.theme.heading());
     frame.render_widget(
         Paragraph::new(lines)
