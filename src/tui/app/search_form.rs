@@ -137,6 +137,8 @@ pub struct SearchJob {
     pub base: Design,
     /// The form it was started from (to go back to).
     pub form: SearchForm,
+    /// The progress and whole seconds last drawn (redrawn when they change).
+    pub drawn: (usize, usize, u64),
 }
 
 /// A design the search found.
@@ -512,7 +514,12 @@ impl App {
                 &|done, total| p.set(done, total),
             )
         });
-        self.ask.search = Some(SearchJob { task, base, form });
+        self.ask.search = Some(SearchJob {
+            task,
+            base,
+            form,
+            drawn: (0, 0, 0),
+        });
         self.mode = Mode::Search(SearchPanel::Running);
     }
 
@@ -523,15 +530,20 @@ impl App {
         };
         let answer = match job.task.poll() {
             Poll::Running => {
-                self.ask.search = Some(job);
-                return false;
+                // The progress bar and the clock move: draw again when they do.
+                let (done, total) = job.task.progress.get();
+                let now = (done, total, job.task.started.elapsed().as_secs());
+                let moved = now != job.drawn;
+                self.ask.search = Some(SearchJob { drawn: now, ..job });
+                return moved;
             }
             Poll::Done(a) => a,
             Poll::Lost => Err(SearchError::Optimiser(
                 "the search stopped without an answer".into(),
             )),
         };
-        let shown = matches!(self.mode, Mode::Search(SearchPanel::Running));
+        // Shown when the panel waits for it, or nothing else is on screen.
+        let shown = matches!(self.mode, Mode::Search(SearchPanel::Running) | Mode::Normal);
         let seconds = job.task.seconds();
         self.ask.last_form = Some(job.form.clone());
         match answer {
