@@ -1,0 +1,310 @@
+//! One design evaluated for the search: the free values applied, the speed
+//! solved, the pattern worked out when CU or spacing is wanted, every goal's
+//! shortfall; and the cost function argmin sees.
+
+use std::sync::atomic::{AtomicUsize, Ordering};
+use std::sync::Mutex;
+
+use argmin::core::{CostFunction, Error as ArgminError};
+
+use super::goals::{Evaluation, Free, GoalKind, Goals, Objective, Shortfall};
+use crate::catalogue::VaryError;
+use crate::inverse::sweep::summarize;
+use crate::physics::balance::{solve, solve_speed, SpinReport, SpinStatus};
+use crate::physics::coverage::{head_pattern_in_wind, head_throw, wetted_radius_m, HeadThrow};
+use crate::physics::design::{Design, Layout};
+use crate::physics::layout::{overlap, HeadPattern, OverlapOptions};
+use crate::physics::pattern::PatternOptions;
+
+/// Cost per unit of distance (in the unit cube of the ranges) outside the ranges.
+const OUTSIDE: f64 = 1e4;
+/// Start margin cap used as an objective (a rotor without breakaway torque
+/// has no finite margin).
+const MARGIN_CAP: f64 = 1e3;
+
+/// The pattern of one head as the overlap needs it: the radial profile in
+/// calm air, the 2-D pattern in wind (worked out once per head).
+enum Pattern {
+    Radial(HeadThrow),
+    Windy(HeadThrow, crate::physics::pattern::PatternGrid),
+}
+
+impl Pattern {
+    fn new(design: &Design, report: &SpinReport, opts: &PatternOptions) -> Option<Pattern> {
+        let head = head_throw(design, report, opts, None).ok()?;
+        if design.wind.speed_m_s > 0.0 {
+            let grid = head_pattern_in_wind(design, &head, opts).ok()?;
+            Some(Pattern::Windy(head, grid))
+        } else {
+            Some(Pattern::Radial(head))
+        }
+    }
+
+    fn head(&self) -> &HeadThrow {
+        match self {
+            Pattern::Radial(h) | Pattern::Windy(h, _) => h,
+        }
+    }
+
+    fn cu(&self, layout: &Layout) -> Option<f64> {
+        let opts = OverlapOptions {
+            wetted_radius_m: Some(self.head().throw.wetted_radius_m),
+            ..OverlapOptions::default()
+        };
+        let pattern: &dyn HeadPattern = match self {
+            Pattern::Radial(h) => &h.throw.profile,
+            Pattern::Windy(_, g) => g,
+        };
+        overlap(layout, pattern, &opts)
+            .ok()
+            .map(|r| r.uniformity.cu_percent)
+            .filter(|c| c.is_finite())
+    }
+
+    /// The largest square spacing S such that every scanned spacing from the
+    /// scan start up to S keeps CU at or above `goal`: scan outward from
+    /// 0.3 R in steps of 0.1 R up to 2.2 R (R the wetted radius), then bisect
+    /// between the last spacing that met the goal and the first that did not
+    /// (CU is not monotone in spacing: a later spacing that meets the goal
+    /// again does not count). Returns (spacing, CU at the scan start);
+    /// spacing None when even the scan start misses the goal.
+    fn largest_spacing(&self, goal: f64) -> (Option<f64>, Option<f64>) {
+        let r = self.head().throw.wetted_radius_m;
+        if !(r.is_finite() && r > 0.0) {
+            return (None, None);
+        }
+        let cu_at = |s: f64| self.cu(&Layout::Square { spacing_m: s });
+        let start = 0.3 * r;
+        let first = cu_at(start);
+        if first.is_none_or(|c| c < goal) {
+            return (None, first);
+        }
+        let mut good = start;
+        let mut bad = None;
+        for k in 1..=19 {
+            let s = start + 0.1 * r * f64::from(k);
+            if cu_at(s).is_some_and(|c| c >= goal) {
+                good = s;
+            } else {
+                bad = Some(s);
+                break;
+            }
+        }
+        if let Some(mut bad) = bad {
+            for _ in 0..6 {
+                let mid = 0.5 * (good + bad);
+                if cu_at(mid).is_some_and(|c| c >= goal) {
+                    good = mid;
+                } else {
+                    bad = mid;
+                }
+            }
+        }
+        (Some(good), first)
+    }
+}
+
+/// What the search needs from a design beyond the speed.
+#[derive(Debug, Clone, Copy)]
+pub(super) struct Needs {
+    pub(super) layout_cu: bool,
+    pub(super) spacing_goal: Option<f64>,
+}
+
+/// One search: the design, its free inputs, goals and objective, and every
+/// design evaluated so far.
+pub(super) struct Problem<'a> {
+    pub(super) design: &'a Design,
+    pub(super) free: &'a [Free],
+    pub(super) goals: Goals,
+    pub(super) objective: Objective,
+    pub(super) needs: Needs,
+    pub(super) archive: Mutex<Vec<Evaluation>>,
+    pub(super) count: AtomicUsize,
+}
+
+impl Problem<'_> {
+    fn si(&self, u: &[f64]) -> Vec<f64> {
+        self.free
+            .iter()
+            .zip(u)
+            .map(|(f, &x)| f.from + (f.to - f.from) * x.clamp(0.0, 1.0))
+            .collect()
+    }
+
+    pub(super) fn unit(&self, values: &[f64]) -> Vec<f64> {
+        self.free
+            .iter()
+            .zip(values)
+            .map(|(f, &v)| ((v - f.from) / (f.to - f.from)).clamp(0.0, 1.0))
+            .collect()
+    }
+
+    /// Evaluate the design at `values` (SI): with the fast speed solve in the
+    /// search, the full solve for the reported designs.
+    pub(super) fn evaluate(&self, values: &[f64], full: bool) -> Evaluation {
+        self.count.fetch_add(1, Ordering::Relaxed);
+        let mut d = self.design.clone();
+        for (f, &v) in self.free.iter().zip(values) {
+            if let Err(e) = f.input.vary_to(&mut d, v) {
+                return self.invalid(values, e);
+            }
+        }
+        let report = if full { solve(&d) } else { solve_speed(&d) };
+        self.measure(values, &d, &report, full)
+    }
+
+    fn invalid(&self, values: &[f64], e: VaryError) -> Evaluation {
+        Evaluation {
+            values: values.to_vec(),
+            status: None,
+            invalid: Some(e),
+            rpm: None,
+            wetted_radius_m: None,
+            cu_percent: None,
+            spacing_m: None,
+            start_margin: None,
+            flow_m3_s: None,
+            objective: None,
+            goals: vec![Shortfall {
+                goal: GoalKind::Runs,
+                limit: f64::NAN,
+                achieved: None,
+                relative: 2.0,
+            }],
+        }
+    }
+
+    fn measure(&self, values: &[f64], d: &Design, report: &SpinReport, full: bool) -> Evaluation {
+        let (rpm, start_margin, flow) = summarize(report);
+        let running = report.status == SpinStatus::Running;
+        let wetted = wetted_radius_m(d, report).ok().filter(|r| r.is_finite());
+        // CU only when a goal or the objective needs it (or for a reported
+        // design with a layout), and only for a rotor that runs.
+        let want_cu = self.needs.layout_cu || (full && d.layout.is_some());
+        let want_spacing = self.needs.spacing_goal;
+        let pattern = if running && (want_cu || want_spacing.is_some()) {
+            Pattern::new(d, report, &PatternOptions::default())
+        } else {
+            None
+        };
+        let cu = match (&pattern, d.layout, want_cu) {
+            (Some(p), Some(layout), true) => p.cu(&layout),
+            _ => None,
+        };
+        let (spacing, cu_start) = match (&pattern, want_spacing) {
+            (Some(p), Some(goal)) => p.largest_spacing(goal),
+            _ => (None, None),
+        };
+        let objective = match self.objective {
+            Objective::Cu => cu,
+            Objective::Throw => wetted,
+            Objective::Spacing => spacing.or(Some(0.0)).filter(|_| running),
+            Objective::Margin => Some(start_margin.map_or(MARGIN_CAP, |m| m.min(MARGIN_CAP))),
+        };
+        let mut goals = vec![Shortfall {
+            goal: GoalKind::Runs,
+            limit: f64::NAN,
+            achieved: None,
+            relative: if running { 0.0 } else { 1.0 },
+        }];
+        let below = |achieved: Option<f64>, limit: f64| {
+            achieved.map_or(1.0, |a| ((limit - a) / limit).max(0.0))
+        };
+        let above = |achieved: Option<f64>, limit: f64| {
+            achieved.map_or(1.0, |a| ((a - limit) / limit).max(0.0))
+        };
+        if let Some((lo, hi)) = self.goals.rpm {
+            let r = rpm.filter(|_| running);
+            goals.push(Shortfall {
+                goal: GoalKind::RpmLow,
+                limit: lo,
+                achieved: r,
+                relative: below(r, lo),
+            });
+            goals.push(Shortfall {
+                goal: GoalKind::RpmHigh,
+                limit: hi,
+                achieved: r,
+                relative: above(r, hi),
+            });
+        }
+        if let Some(l) = self.goals.min_throw_m {
+            goals.push(Shortfall {
+                goal: GoalKind::MinThrow,
+                limit: l,
+                achieved: wetted,
+                relative: below(wetted, l),
+            });
+        }
+        if let Some(q) = self.goals.max_flow_m3_s {
+            goals.push(Shortfall {
+                goal: GoalKind::MaxFlow,
+                limit: q,
+                achieved: flow,
+                relative: above(flow, q),
+            });
+        }
+        if let Some(m) = self.goals.min_margin {
+            // No breakaway torque: any stall torque starts the rotor.
+            let margin = start_margin.or(Some(f64::INFINITY));
+            goals.push(Shortfall {
+                goal: GoalKind::MinMargin,
+                limit: m,
+                achieved: start_margin,
+                relative: below(margin, m),
+            });
+        }
+        if let Some(c) = self.goals.cu_percent {
+            let achieved = if self.objective == Objective::Spacing {
+                cu_start
+            } else {
+                cu
+            };
+            goals.push(Shortfall {
+                goal: GoalKind::Cu,
+                limit: c,
+                achieved,
+                relative: below(achieved, c),
+            });
+        }
+        Evaluation {
+            values: values.to_vec(),
+            status: Some(report.status),
+            invalid: None,
+            rpm: rpm.filter(|_| running),
+            wetted_radius_m: wetted,
+            cu_percent: cu,
+            spacing_m: spacing,
+            start_margin,
+            flow_m3_s: flow,
+            objective,
+            goals,
+        }
+    }
+}
+
+/// The cost function argmin sees: the unit cube of the ranges.
+pub(super) struct Cost<'a, 'b> {
+    pub(super) problem: &'a Problem<'b>,
+}
+
+impl CostFunction for Cost<'_, '_> {
+    type Param = Vec<f64>;
+    type Output = f64;
+
+    fn cost(&self, u: &Self::Param) -> Result<f64, ArgminError> {
+        let outside: f64 = u
+            .iter()
+            .map(|&x| (x - x.clamp(0.0, 1.0)).powi(2))
+            .sum::<f64>()
+            .sqrt();
+        let values = self.problem.si(u);
+        let e = self.problem.evaluate(&values, false);
+        let c = e.cost() + OUTSIDE * outside;
+        if let Ok(mut archive) = self.problem.archive.lock() {
+            archive.push(e);
+        }
+        Ok(c)
+    }
+}
