@@ -15,11 +15,18 @@
 //! `PENALTY + shortfall` otherwise), plus a pull back into the ranges for a
 //! simplex that steps outside them.
 //!
+//! Coarse, then fine: in wind, while the optimiser runs, each candidate's CU
+//! comes from a coarse 2-D pattern; the best few candidates are then
+//! evaluated again with the full model, which picks the answer, and every
+//! reported figure (best, runners-up, closest approach, sensitivity) comes
+//! from the full model.
+//!
 //! Pure: no terminal, no files. Free inputs are catalogue inputs with a
 //! [`crate::catalogue::Vary`] rule and take their values through
 //! [`Input::vary_to`], as sweeps do (per-arm inputs move all arms together).
 
 mod evaluate;
+mod finish;
 mod goals;
 
 use std::sync::atomic::{AtomicUsize, Ordering};
@@ -30,15 +37,13 @@ use argmin::solver::neldermead::NelderMead;
 use rayon::prelude::*;
 
 use crate::physics::design::Design;
-use evaluate::{Cost, Needs, Problem};
+use evaluate::{Cost, Fidelity, Needs, Problem};
+use finish::{binding, closest, finish, rank, sensitivity, Finish};
 use goals::check;
 pub use goals::{
     Closest, Evaluation, Free, GoalKind, Goals, Objective, SearchError, SearchOptions,
     SearchResult, Sensitivity, Shortfall,
 };
-
-/// Relative slack under which a met goal counts as binding (2 %).
-const BINDING_SLACK: f64 = 0.02;
 
 /// A small deterministic generator (SplitMix64) for the Latin hypercube.
 struct SplitMix(u64);
@@ -111,14 +116,6 @@ fn run_start(problem: &Problem<'_>, u0: Vec<f64>, max_iters: u64) -> Result<(), 
     Ok(())
 }
 
-/// Largest distance between two points of the unit cube along any axis.
-fn distance(a: &[f64], b: &[f64]) -> f64 {
-    a.iter()
-        .zip(b)
-        .map(|(x, y)| (x - y).abs())
-        .fold(0.0, f64::max)
-}
-
 /// Run a design search. `progress(done, total)` is called after each start
 /// finishes (and once more after the sensitivity table), from any worker.
 pub fn search(
@@ -147,6 +144,11 @@ pub fn search(
         goals,
         objective,
         needs,
+        screen: if options.screen {
+            Fidelity::Screen
+        } else {
+            Fidelity::Full
+        },
         archive: Mutex::new(Vec::new()),
         count: AtomicUsize::new(0),
     };
@@ -176,139 +178,28 @@ pub fn search(
             r
         })
         .collect::<Result<Vec<()>, SearchError>>()?;
-    let mut archive = problem
+    let mut ranked = problem
         .archive
         .lock()
         .map(|mut a| std::mem::take(&mut *a))
         .unwrap_or_default();
-    archive.sort_by(|a, b| a.cost().total_cmp(&b.cost()));
+    rank(&mut ranked);
 
-    // The best: the first of the ranking that the full solve confirms
-    // (the fast and full solves find the same operating point; this guards
-    // the report against any difference).
-    let mut best = None;
-    for candidate in archive.iter().take(20) {
-        let full = problem.evaluate(&candidate.values, true);
-        if full.feasible() == candidate.feasible() {
-            best = Some(full);
-            break;
-        }
-    }
-    let best = match best {
-        Some(b) => b,
-        None => match archive.first() {
-            Some(first) => problem.evaluate(&first.values, true),
-            None => problem.evaluate(&own, true),
-        },
-    };
-    let best_u = problem.unit(&best.values);
-
-    // Runners-up: the next in the ranking that differ from the best and from
-    // each other by more than `distinct` of a range; feasible ones only when
-    // the best is feasible.
-    let mut chosen: Vec<Vec<f64>> = vec![best_u.clone()];
-    let mut runners_up = Vec::new();
-    for candidate in &archive {
-        if runners_up.len() >= options.runners_up {
-            break;
-        }
-        if best.feasible() && !candidate.feasible() {
-            break;
-        }
-        let u = problem.unit(&candidate.values);
-        if chosen.iter().all(|c| distance(c, &u) > options.distinct) {
-            let full = problem.evaluate(&candidate.values, true);
-            if best.feasible() && !full.feasible() {
-                continue;
-            }
-            chosen.push(u);
-            runners_up.push(full);
-        }
-    }
-
-    // Goals that bind at the best design.
-    let binding = if best.feasible() {
-        best.goals
-            .iter()
-            .filter(|g| g.goal != GoalKind::Runs)
-            .filter(|g| {
-                g.achieved.is_some_and(|a| {
-                    let slack = match g.goal {
-                        GoalKind::RpmHigh | GoalKind::MaxFlow => (g.limit - a) / g.limit,
-                        _ => (a - g.limit) / g.limit,
-                    };
-                    slack < BINDING_SLACK
-                })
-            })
-            .map(|g| g.goal)
-            .collect()
-    } else {
-        Vec::new()
-    };
+    // Every figure from here on comes from the full model.
+    let Finish {
+        best,
+        runners_up,
+        checked,
+    } = finish(&problem, &ranked, &own, options);
+    let binding = binding(&best);
     let at_range_end = free
         .iter()
-        .zip(&best_u)
-        .filter(|(_, &u)| !(0.005..=0.995).contains(&u))
+        .zip(problem.unit(&best.values))
+        .filter(|(_, u)| !(0.005..=0.995).contains(u))
         .map(|(f, _)| f.input)
         .collect();
-
-    // How close the search came to each missed goal.
-    let closest = best
-        .unmet()
-        .map(|g| {
-            let values = archive.iter().flat_map(|e| {
-                e.goals
-                    .iter()
-                    .filter(|x| x.goal == g.goal)
-                    .filter_map(|x| x.achieved)
-            });
-            let best_value = match g.goal {
-                GoalKind::RpmHigh | GoalKind::MaxFlow => values.reduce(f64::min),
-                GoalKind::Runs => None,
-                _ => values.reduce(f64::max),
-            };
-            Closest {
-                goal: g.goal,
-                limit: g.limit,
-                best: best_value,
-            }
-        })
-        .collect();
-
-    // Sensitivity: each free value moved by ± the perturbation.
-    let sensitivity = free
-        .iter()
-        .enumerate()
-        .filter_map(|(i, f)| {
-            let value = *best.values.get(i)?;
-            let step = if value.abs() > 0.0 {
-                options.perturbation * value.abs()
-            } else {
-                options.perturbation * (f.to - f.from)
-            };
-            let at = |v: f64| {
-                let mut values = best.values.clone();
-                if let Some(x) = values.get_mut(i) {
-                    *x = v;
-                }
-                problem.evaluate(&values, false)
-            };
-            let minus = at(value - step);
-            let plus = at(value + step);
-            let per_unit = match (minus.objective, plus.objective) {
-                (Some(a), Some(b)) if step > 0.0 => Some((b - a) / (2.0 * step)),
-                _ => None,
-            };
-            Some(Sensitivity {
-                input: f.input,
-                value,
-                step,
-                minus,
-                plus,
-                per_unit,
-            })
-        })
-        .collect();
+    let closest = closest(&problem, &best, &ranked, &checked);
+    let sensitivity = sensitivity(&problem, free, &best, options.perturbation);
     progress(total, total);
 
     let mut best_design = design.clone();

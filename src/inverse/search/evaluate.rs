@@ -11,10 +11,12 @@ use super::goals::{Evaluation, Free, GoalKind, Goals, Objective, Shortfall};
 use crate::catalogue::VaryError;
 use crate::inverse::sweep::summarize;
 use crate::physics::balance::{solve, solve_speed, SpinReport, SpinStatus};
-use crate::physics::coverage::{head_pattern_in_wind, head_throw, wetted_radius_m, HeadThrow};
+use crate::physics::coverage::{
+    flight_env, head_pattern_in_wind, head_throw, spraying_state, wetted_radius_m,
+};
 use crate::physics::design::{Design, Layout};
 use crate::physics::layout::{overlap, HeadPattern, OverlapOptions};
-use crate::physics::pattern::PatternOptions;
+use crate::physics::pattern::{windy_pattern, PatternGrid, PatternOptions, RadialProfile};
 
 /// Cost per unit of distance (in the unit cube of the ranges) outside the ranges.
 const OUTSIDE: f64 = 1e4;
@@ -22,38 +24,88 @@ const OUTSIDE: f64 = 1e4;
 /// has no finite margin).
 const MARGIN_CAP: f64 = 1e3;
 
-/// The pattern of one head as the overlap needs it: the radial profile in
-/// calm air, the 2-D pattern in wind (worked out once per head).
-enum Pattern {
-    Radial(HeadThrow),
-    Windy(HeadThrow, crate::physics::pattern::PatternGrid),
+/// Drop-size classes per nozzle of the screening pattern in wind (the full
+/// pattern has [`PatternOptions::default`]'s).
+const SCREEN_BINS: usize = 12;
+/// Azimuths per turn of the screening pattern in wind.
+const SCREEN_AZIMUTHS: usize = 24;
+/// Grid cells per wetted radius of the screening pattern in wind (the full
+/// pattern has about 55: 120 across its larger extent).
+const SCREEN_CELLS_PER_RADIUS: f64 = 25.0;
+
+/// How finely a candidate is worked out.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(super) enum Fidelity {
+    /// While the optimiser runs: the speed-only solve and, in wind, the
+    /// coarse 2-D pattern (fewer drop classes and azimuths, a coarser grid)
+    /// placed with the still-air wetted radius found from the outer drops.
+    Screen,
+    /// For every reported figure: the full solve and the pattern exactly as
+    /// `solve` and `layout` work it out.
+    Full,
+}
+
+/// The pattern of one head as the overlap needs it (worked out once per
+/// head) and the wetted radius the spacing percentages are read against.
+struct Pattern {
+    wetted_radius_m: f64,
+    shape: Shape,
+}
+
+enum Shape {
+    /// Calm air: the radial profile.
+    Radial(RadialProfile),
+    /// Wind: the 2-D pattern.
+    Windy(PatternGrid),
 }
 
 impl Pattern {
-    fn new(design: &Design, report: &SpinReport, opts: &PatternOptions) -> Option<Pattern> {
-        let head = head_throw(design, report, opts, None).ok()?;
-        if design.wind.speed_m_s > 0.0 {
-            let grid = head_pattern_in_wind(design, &head, opts).ok()?;
-            Some(Pattern::Windy(head, grid))
+    /// `wetted_radius_m`: the still-air wetted radius already found for the
+    /// candidate (the screening pattern in wind is read against it).
+    fn new(
+        design: &Design,
+        report: &SpinReport,
+        fidelity: Fidelity,
+        wetted_radius_m: f64,
+    ) -> Option<Pattern> {
+        let windy = design.wind.speed_m_s > 0.0;
+        if windy && fidelity == Fidelity::Screen {
+            let opts = PatternOptions {
+                bins: SCREEN_BINS,
+                azimuths: SCREEN_AZIMUTHS,
+                cell_m: Some(wetted_radius_m / SCREEN_CELLS_PER_RADIUS),
+                ..PatternOptions::default()
+            };
+            let jets = spraying_state(design, report).jets;
+            let grid = windy_pattern(&jets, &design.spray, &flight_env(design), &opts).ok()?;
+            return Some(Pattern {
+                wetted_radius_m,
+                shape: Shape::Windy(grid),
+            });
+        }
+        // The full model, as `uniformity_on_layout` works it out (in calm air
+        // the screen is the full model: the radial profile is cheap).
+        let opts = PatternOptions::default();
+        let head = head_throw(design, report, &opts, None).ok()?;
+        let shape = if windy {
+            Shape::Windy(head_pattern_in_wind(design, &head, &opts).ok()?)
         } else {
-            Some(Pattern::Radial(head))
-        }
-    }
-
-    fn head(&self) -> &HeadThrow {
-        match self {
-            Pattern::Radial(h) | Pattern::Windy(h, _) => h,
-        }
+            Shape::Radial(head.throw.profile)
+        };
+        Some(Pattern {
+            wetted_radius_m: head.throw.wetted_radius_m,
+            shape,
+        })
     }
 
     fn cu(&self, layout: &Layout) -> Option<f64> {
         let opts = OverlapOptions {
-            wetted_radius_m: Some(self.head().throw.wetted_radius_m),
+            wetted_radius_m: Some(self.wetted_radius_m),
             ..OverlapOptions::default()
         };
-        let pattern: &dyn HeadPattern = match self {
-            Pattern::Radial(h) => &h.throw.profile,
-            Pattern::Windy(_, g) => g,
+        let pattern: &dyn HeadPattern = match &self.shape {
+            Shape::Radial(p) => p,
+            Shape::Windy(g) => g,
         };
         overlap(layout, pattern, &opts)
             .ok()
@@ -69,7 +121,7 @@ impl Pattern {
     /// again does not count). Returns (spacing, CU at the scan start);
     /// spacing None when even the scan start misses the goal.
     fn largest_spacing(&self, goal: f64) -> (Option<f64>, Option<f64>) {
-        let r = self.head().throw.wetted_radius_m;
+        let r = self.wetted_radius_m;
         if !(r.is_finite() && r > 0.0) {
             return (None, None);
         }
@@ -119,6 +171,8 @@ pub(super) struct Problem<'a> {
     pub(super) goals: Goals,
     pub(super) objective: Objective,
     pub(super) needs: Needs,
+    /// How the optimiser's candidates are worked out.
+    pub(super) screen: Fidelity,
     pub(super) archive: Mutex<Vec<Evaluation>>,
     pub(super) count: AtomicUsize,
 }
@@ -140,9 +194,9 @@ impl Problem<'_> {
             .collect()
     }
 
-    /// Evaluate the design at `values` (SI): with the fast speed solve in the
-    /// search, the full solve for the reported designs.
-    pub(super) fn evaluate(&self, values: &[f64], full: bool) -> Evaluation {
+    /// Evaluate the design at `values` (SI): screened while the optimiser
+    /// runs, with the full model for every reported design.
+    pub(super) fn evaluate(&self, values: &[f64], fidelity: Fidelity) -> Evaluation {
         self.count.fetch_add(1, Ordering::Relaxed);
         let mut d = self.design.clone();
         for (f, &v) in self.free.iter().zip(values) {
@@ -150,8 +204,11 @@ impl Problem<'_> {
                 return self.invalid(values, e);
             }
         }
-        let report = if full { solve(&d) } else { solve_speed(&d) };
-        self.measure(values, &d, &report, full)
+        let report = match fidelity {
+            Fidelity::Screen => solve_speed(&d),
+            Fidelity::Full => solve(&d),
+        };
+        self.measure(values, &d, &report, fidelity)
     }
 
     fn invalid(&self, values: &[f64], e: VaryError) -> Evaluation {
@@ -175,18 +232,25 @@ impl Problem<'_> {
         }
     }
 
-    fn measure(&self, values: &[f64], d: &Design, report: &SpinReport, full: bool) -> Evaluation {
+    fn measure(
+        &self,
+        values: &[f64],
+        d: &Design,
+        report: &SpinReport,
+        fidelity: Fidelity,
+    ) -> Evaluation {
         let (rpm, start_margin, flow) = summarize(report);
         let running = report.status == SpinStatus::Running;
         let wetted = wetted_radius_m(d, report).ok().filter(|r| r.is_finite());
         // CU only when a goal or the objective needs it (or for a reported
         // design with a layout), and only for a rotor that runs.
-        let want_cu = self.needs.layout_cu || (full && d.layout.is_some());
+        let want_cu = self.needs.layout_cu || (fidelity == Fidelity::Full && d.layout.is_some());
         let want_spacing = self.needs.spacing_goal;
-        let pattern = if running && (want_cu || want_spacing.is_some()) {
-            Pattern::new(d, report, &PatternOptions::default())
-        } else {
-            None
+        let pattern = match wetted {
+            Some(w) if running && (want_cu || want_spacing.is_some()) => {
+                Pattern::new(d, report, fidelity, w)
+            }
+            _ => None,
         };
         let cu = match (&pattern, d.layout, want_cu) {
             (Some(p), Some(layout), true) => p.cu(&layout),
@@ -300,7 +364,7 @@ impl CostFunction for Cost<'_, '_> {
             .sum::<f64>()
             .sqrt();
         let values = self.problem.si(u);
-        let e = self.problem.evaluate(&values, false);
+        let e = self.problem.evaluate(&values, self.problem.screen);
         let c = e.cost() + OUTSIDE * outside;
         if let Ok(mut archive) = self.problem.archive.lock() {
             archive.push(e);

@@ -127,6 +127,15 @@ pub struct SearchOptions {
     pub runners_up: usize,
     /// The relative step of the sensitivity table (±5 % of each value).
     pub perturbation: f64,
+    /// Screen the candidates in wind with a coarse 2-D pattern while the
+    /// optimiser runs, then re-check the finalists with the full model
+    /// (`false`: every candidate with the full model, several times slower in
+    /// wind; in calm air the two are the same).
+    pub screen: bool,
+    /// How many of the best screened candidates (at least a hundredth of a
+    /// range apart) are re-checked with the full model; the best of them by
+    /// the full model is the answer.
+    pub finalists: usize,
 }
 
 impl Default for SearchOptions {
@@ -138,6 +147,8 @@ impl Default for SearchOptions {
             distinct: 0.1,
             runners_up: 3,
             perturbation: 0.05,
+            screen: true,
+            finalists: 8,
         }
     }
 }
