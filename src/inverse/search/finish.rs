@@ -78,14 +78,9 @@ pub(super) fn finish(
     };
     rank(&mut finalists);
     let mut finalists = finalists.into_iter();
-    let Some(first) = finalists.next() else {
-        // Not reached: there is always one finalist.
-        return Finish {
-            best: problem.evaluate(fallback, Fidelity::Full),
-            runners_up: Vec::new(),
-            checked: Vec::new(),
-        };
-    };
+    let first = finalists
+        .next()
+        .unwrap_or_else(|| problem.evaluate(fallback, Fidelity::Full));
     let feasible = first.feasible();
     let mut chosen: Vec<Vec<f64>> = vec![problem.unit(&first.values)];
     let mut set = vec![first];
@@ -185,6 +180,7 @@ pub(super) fn closest(
             let goal = g.goal;
             let screened = ranked
                 .iter()
+                .filter(|_| goal != GoalKind::Runs)
                 .filter_map(|e| achieved(e, goal).map(|a| (a, e)))
                 .reduce(|x, y| if better(goal, x.0, y.0) == y.0 { y } else { x });
             let again = screened.map(|(_, e)| problem.evaluate(&e.values, Fidelity::Full));
