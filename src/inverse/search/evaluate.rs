@@ -15,7 +15,7 @@ use crate::physics::coverage::{
     flight_env, head_pattern_in_wind, head_throw, spraying_state, wetted_radius_m,
 };
 use crate::physics::design::{Design, Layout};
-use crate::physics::layout::{overlap, HeadPattern, OverlapOptions};
+use crate::physics::layout::{overlap, HeadPattern, OverlapOptions, DEFAULT_CELLS_ALONG_ROW};
 use crate::physics::pattern::{windy_pattern, PatternGrid, PatternOptions, RadialProfile};
 
 /// Cost per unit of distance (in the unit cube of the ranges) outside the ranges.
@@ -32,13 +32,17 @@ const SCREEN_AZIMUTHS: usize = 24;
 /// Grid cells per wetted radius of the screening pattern in wind (the full
 /// pattern has about 55: 120 across its larger extent).
 const SCREEN_CELLS_PER_RADIUS: f64 = 25.0;
+/// Catch cells along a row of the screening overlap in wind (the full
+/// overlap has [`DEFAULT_CELLS_ALONG_ROW`]).
+const SCREEN_CELLS_ALONG_ROW: usize = 20;
 
 /// How finely a candidate is worked out.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub(super) enum Fidelity {
     /// While the optimiser runs: the speed-only solve and, in wind, the
     /// coarse 2-D pattern (fewer drop classes and azimuths, a coarser grid)
-    /// placed with the still-air wetted radius found from the outer drops.
+    /// placed with the still-air wetted radius found from the outer drops,
+    /// overlapped on fewer catch cells.
     Screen,
     /// For every reported figure: the full solve and the pattern exactly as
     /// `solve` and `layout` work it out.
@@ -50,6 +54,8 @@ pub(super) enum Fidelity {
 struct Pattern {
     wetted_radius_m: f64,
     shape: Shape,
+    /// Catch cells along a row of the overlap.
+    cells_along_row: usize,
 }
 
 enum Shape {
@@ -81,6 +87,7 @@ impl Pattern {
             return Some(Pattern {
                 wetted_radius_m,
                 shape: Shape::Windy(grid),
+                cells_along_row: SCREEN_CELLS_ALONG_ROW,
             });
         }
         // The full model, as `uniformity_on_layout` works it out (in calm air
@@ -95,13 +102,14 @@ impl Pattern {
         Some(Pattern {
             wetted_radius_m: head.throw.wetted_radius_m,
             shape,
+            cells_along_row: DEFAULT_CELLS_ALONG_ROW,
         })
     }
 
     fn cu(&self, layout: &Layout) -> Option<f64> {
         let opts = OverlapOptions {
             wetted_radius_m: Some(self.wetted_radius_m),
-            ..OverlapOptions::default()
+            cells_along_row: self.cells_along_row,
         };
         let pattern: &dyn HeadPattern = match &self.shape {
             Shape::Radial(p) => p,
