@@ -79,7 +79,9 @@ impl Pattern {
             let opts = PatternOptions {
                 bins: SCREEN_BINS,
                 azimuths: SCREEN_AZIMUTHS,
-                cell_m: Some(wetted_radius_m / SCREEN_CELLS_PER_RADIUS),
+                // No wetted radius (nothing reaches the threshold): the
+                // pattern's own cell size.
+                cell_m: (wetted_radius_m > 0.0).then(|| wetted_radius_m / SCREEN_CELLS_PER_RADIUS),
                 ..PatternOptions::default()
             };
             let jets = spraying_state(design, report).jets;
