@@ -9,14 +9,6 @@ use crate::inverse::compare::{compare_with_coverage, Comparison, InputValue};
 use crate::physics::design::Design;
 use crate::units::{to_display, unit_label, Dimension as D, UnitSystem};
 
-/// Whether a larger value of a result key is better (None: neither).
-pub fn larger_is_better(key: &str) -> Option<bool> {
-    match key {
-        "start_margin" | "cu_percent" | "du_lq_percent" | "wetted_radius_m" => Some(true),
-        _ => None,
-    }
-}
-
 /// Run `compare`.
 pub fn run_compare(paths: &[PathBuf], o: Output, out: &mut dyn Write) -> Result<Outcome, CliError> {
     let designs = paths
@@ -129,7 +121,7 @@ pub fn run_compare(paths: &[PathBuf], o: Output, out: &mut dyn Write) -> Result<
                     .chain(c.names.iter().skip(1).map(|n| format!("Δ {n}"))),
             );
             for res in &c.results {
-                let better = larger_is_better(&res.key);
+                let better = res.larger_is_better();
                 let shown = ShownResult::new(res, units);
                 let cells = shown.values.iter().map(|v| sig(*v, 4));
                 let deltas = shown

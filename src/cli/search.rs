@@ -4,7 +4,7 @@
 //! per design) for a script; a progress bar on a terminal only.
 
 use std::collections::BTreeMap;
-use std::io::{IsTerminal, Write};
+use std::io::Write;
 use std::path::{Path, PathBuf};
 
 use clap::{Args, ValueEnum};
@@ -12,14 +12,16 @@ use serde::Serialize;
 
 use super::text::{csv_number, sig, TextTable};
 use super::values::parameter_value;
-use super::{positive_quantity, positive_rpm, CliError, Format, Outcome, Output};
+use super::{
+    open_for_edit, positive_quantity, positive_rpm, progress_bar, save_design_over, CliError,
+    Format, Outcome, Output,
+};
 use crate::catalogue::{self, Input};
 use crate::inverse::search::{
     search, Evaluation, Free, GoalKind, Goals, Objective, SearchOptions, SearchResult,
 };
 use crate::physics::design::Layout;
 use crate::physics::layout::pattern_name;
-use crate::scenario::{self, save_scenario, Scenario};
 use crate::units::{csv_key, format_quantity, to_display, unit_label, Dimension as D, UnitSystem};
 
 /// What `search` makes as large as it can.
@@ -365,11 +367,7 @@ fn unmet(r: &SearchResult) -> Vec<UnmetJson> {
 pub fn run(args: &SearchArgs, out: &mut dyn Write) -> Result<Outcome, CliError> {
     let path: &Path = &args.file;
     // The file's text is kept: `--out` edits it in place (comments kept).
-    let original = std::fs::read_to_string(path).map_err(|io| scenario::ScenarioError::Read {
-        path: path.to_path_buf(),
-        io,
-    })?;
-    let source = scenario::load_str(&original, &path.display().to_string())?;
+    let (original, source) = open_for_edit(path)?;
     let design = source.to_design()?;
     let free = args
         .free
@@ -382,16 +380,7 @@ pub fn run(args: &SearchArgs, out: &mut dyn Write) -> Result<Outcome, CliError> 
         starts: args.starts as usize,
         ..SearchOptions::default()
     };
-    let bar = if std::io::stderr().is_terminal() {
-        let bar = indicatif::ProgressBar::new(options.starts as u64 + 1);
-        bar.set_style(
-            indicatif::ProgressStyle::with_template("{bar:40} {pos}/{len} starts, {eta} left")
-                .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
-        );
-        Some(bar)
-    } else {
-        None
-    };
+    let bar = progress_bar(options.starts + 1, "starts");
     let progress = |done: usize, _total: usize| {
         if let Some(b) = &bar {
             b.set_position(done as u64);
@@ -404,18 +393,14 @@ pub fn run(args: &SearchArgs, out: &mut dyn Write) -> Result<Outcome, CliError> 
     }
     let units: UnitSystem = args.output.units.into();
     let written = match &args.out {
-        Some(p) => {
-            let new = Scenario::from_design(&result.design, units, &source.notes);
-            let saved = save_scenario(p, Some(&original), &new)?;
-            if let scenario::Written::Rewritten(why) = &saved.written {
-                eprintln!(
-                    "note: {} was written anew, without the comments of {}: {why}",
-                    p.display(),
-                    path.display()
-                );
-            }
-            Some(p.display().to_string())
-        }
+        Some(p) => Some(save_design_over(
+            p,
+            path,
+            &original,
+            &source.notes,
+            &result.design,
+            units,
+        )?),
         None => None,
     };
     let best = &result.best;

@@ -13,7 +13,7 @@ use crate::physics::coverage::{head_throw, HeadThrow};
 use crate::physics::design::Design;
 use crate::physics::hydraulics::SupplyState;
 use crate::physics::pattern::PatternOptions;
-use crate::physics::torque::{absolute_velocity, arm_frame};
+use crate::physics::torque::{arm_frame, jets};
 use crate::units::{format_quantity, Dimension as D, UnitSystem};
 
 /// The JSON report of `solve`; its keys are listed in docs/format.md.
@@ -96,13 +96,11 @@ pub fn reported_state(report: &SpinReport) -> &SupplyState {
 
 /// Absolute jet velocity of each arm's jet as [radial, tangential, vertical], m/s.
 pub fn jet_components(design: &Design, state: &SupplyState) -> Vec<[f64; 3]> {
-    design
-        .rotor
-        .arms
+    jets(design, state)
         .iter()
-        .zip(&state.nozzles)
-        .map(|(arm, n)| {
-            let v = absolute_velocity(arm, n.jet_speed_relative_m_s, state.omega_rad_s);
+        .zip(&design.rotor.arms)
+        .map(|(jet, arm)| {
+            let v = jet.velocity_m_s;
             let (radial, tangential, vertical) = arm_frame(arm.azimuth_rad);
             [v.dot(&radial), v.dot(&tangential), v.dot(&vertical)]
         })

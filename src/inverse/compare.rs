@@ -106,6 +106,18 @@ pub struct ResultComparison {
     pub percents: Vec<Option<f64>>,
 }
 
+impl ResultComparison {
+    /// Whether a larger value of this result is better: `Some(true)` for the
+    /// start margin, CU, DU and wetted radius; `None` where neither is (speed,
+    /// flow and torque are matters of design, not of merit).
+    pub fn larger_is_better(&self) -> Option<bool> {
+        match self.key.as_str() {
+            "start_margin" | "cu_percent" | "du_lq_percent" | "wetted_radius_m" => Some(true),
+            _ => None,
+        }
+    }
+}
+
 /// A key result supplied by the caller (throw, CU…), computed per design.
 pub struct ExtraMetric<'a> {
     /// Key with the unit in it, e.g. `wetted_radius_m`.

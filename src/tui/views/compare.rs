@@ -13,14 +13,6 @@ use crate::inverse::compare::{Comparison, InputDifference, InputValue};
 use crate::tui::app::App;
 use crate::units::{to_display, unit_label, Dimension as D, UnitSystem};
 
-/// Whether a larger value of a result is better (None: neither).
-pub fn larger_is_better(key: &str) -> Option<bool> {
-    match key {
-        "start_margin" | "cu_percent" | "du_lq_percent" | "wetted_radius_m" => Some(true),
-        _ => None,
-    }
-}
-
 /// A result key's label and dimension (None: shown as is, with `unit`).
 fn result_label(key: &str) -> (&'static str, Option<D>) {
     match key {
@@ -89,7 +81,7 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
                 to_display(dm, d, app.units) - to_display(dm, 0.0, app.units)
             })
         };
-        let better = larger_is_better(&r.key);
+        let better = r.larger_is_better();
         let mut cells = vec![Cell::from(label)];
         for (k, v) in r.values.iter().enumerate() {
             let base = v.map_or("—".to_string(), |v| num(shown(v)));
