@@ -69,7 +69,7 @@ use super::balance::{rad_s, rpm, solve, solve_speed, SpinModel, SpinReport, Spin
 use super::design::{Bearing, Design, Supply};
 use super::torque::{washer_axial_force_n, washer_effective_radius_m};
 use super::ThrowFn;
-use crate::numeric::root::{brent, Tolerance};
+use crate::numeric::root::{brent, doubling, grow_bracket, Tolerance};
 
 /// Default stopwatch resolution for hand timing, s (common practice: a hand
 /// stopwatch is good to about 0.2 s, reaction time included).
@@ -607,15 +607,7 @@ fn decreasing_root(f: impl Fn(f64) -> f64, x0: f64, step0: f64, f_scale: f64) ->
     }
     // f decreasing: root above x0 when f0 > 0.
     let dir = if f0 > 0.0 { 1.0 } else { -1.0 };
-    let mut step = step0;
-    let mut far = x0 + dir * step;
-    for _ in 0..200 {
-        if f(far).signum() != f0.signum() {
-            break;
-        }
-        step *= 2.0;
-        far = x0 + dir * step;
-    }
+    let (_, far) = grow_bracket(&f, x0, f0, doubling(x0, dir, step0, 200))?;
     let (lo, hi) = if dir > 0.0 { (x0, far) } else { (far, x0) };
     let tol = Tolerance {
         x: 1e-15 * lo.abs().max(hi.abs()).max(step0),
@@ -724,24 +716,17 @@ fn nozzle_scale_for(design: &Design, omega: f64, flow: f64) -> Option<f64> {
     if f1 == 0.0 {
         return Some(1.0);
     }
-    let (mut lo, mut hi) = (1.0, 1.0);
-    if f1 < 0.0 {
-        while f(hi) < 0.0 {
-            if hi >= MAX_NOZZLE_SCALE {
-                return None;
-            }
-            lo = hi;
-            hi = (hi * 1.5).min(MAX_NOZZLE_SCALE);
-        }
+    // Grow by 1.5 up to MAX_NOZZLE_SCALE, or shrink by 1.5 down to 1e-4.
+    let (lo, hi) = if f1 < 0.0 {
+        let up = std::iter::successors(Some(1.5), |&h: &f64| {
+            (h < MAX_NOZZLE_SCALE).then(|| (h * 1.5).min(MAX_NOZZLE_SCALE))
+        });
+        grow_bracket(f, 1.0, f1, up)?
     } else {
-        while f(lo) > 0.0 {
-            if lo < 1e-4 {
-                return None;
-            }
-            hi = lo;
-            lo /= 1.5;
-        }
-    }
+        let down = std::iter::successors(Some(1.0 / 1.5), |&l: &f64| (l >= 1e-4).then(|| l / 1.5));
+        let (hi, lo) = grow_bracket(f, 1.0, f1, down)?;
+        (lo, hi)
+    };
     let tol = Tolerance {
         x: 1e-15 * hi,
         f: 1e-13 * flow,
