@@ -14,15 +14,15 @@ use super::{
 };
 use crate::catalogue::{self, Input};
 use crate::inverse::compare::{compare_with_coverage, Comparison, InputValue};
+use crate::inverse::field::{
+    check, Alone, Cause, CauseEvidence, FieldCheck, FieldReading, FieldTolerances, FlowReading,
+    NozzleAlone, RotationReading, ThrowReading,
+};
 use crate::inverse::sweep::{sweep_with, SweepAxis};
 use crate::inverse::target::{target, Goal, TargetResult};
 use crate::physics::balance::{solve, SpinReport};
 use crate::physics::coverage::{head_throw, layout_overlap, wetted_radius_m};
 use crate::physics::design::Design;
-use crate::physics::field::{
-    check, Alone, Cause, CauseEvidence, FieldCheck, FieldReading, FieldTolerances, FlowReading,
-    NozzleAlone, RotationReading, ThrowReading,
-};
 use crate::physics::layout::OverlapOptions;
 use crate::physics::pattern::PatternOptions;
 use crate::report::field as words;

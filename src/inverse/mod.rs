@@ -5,13 +5,16 @@
 //! model to measurements: several speed readings at different pressures
 //! ([`fit`]) and a coast-down after the water is shut off ([`coast`]), on a
 //! small Levenberg–Marquardt least squares ([`lsq`]); readings files are parsed
-//! in [`readings`]. A catch-can leg fits the spray's jet breakup ([`leg`], a
+//! in [`readings`]. The field check ([`field`], model.md M10) sets a
+//! technician's readings at a running sprinkler against its design and names
+//! the likely causes. A catch-can leg fits the spray's jet breakup ([`leg`], a
 //! scan and a golden-section search over one parameter). A design search
 //! ([`search`]) finds the values of a few free inputs that meet goals and
 //! maximise an objective. Pure: no terminal, no files (the callers read them).
 
 pub mod coast;
 pub mod compare;
+pub mod field;
 pub mod fit;
 pub mod leg;
 pub mod lsq;

@@ -30,10 +30,10 @@ use super::theme::Theme;
 use super::worker::{Done, Job, SprayResult, Worker};
 use crate::catalogue;
 use crate::inverse::compare::Comparison;
+use crate::inverse::field::{FieldCheck, FieldReading, FlowReading, RotationReading, ThrowReading};
 use crate::physics::balance::{solve, table_top_speed, SpinModel, SpinReport, TableRow};
 use crate::physics::checks::{cautions, Caution, Rules};
 use crate::physics::design::{Arm, Bearing, Design, Washer, WasherRule};
-use crate::physics::field::{FieldCheck, FieldReading, FlowReading, RotationReading, ThrowReading};
 use crate::scenario::{self, Scenario, ScenarioError};
 use crate::units::{self, Dimension as D, UnitSystem};
 

@@ -398,7 +398,7 @@ fn choices_change_the_list_and_every_feed_solves() {
 #[test]
 fn rotation_and_flow_are_read_in_the_forms_taken() {
     use super::app::{parse_flow, parse_rotation};
-    use crate::physics::field::{FlowReading, RotationReading};
+    use crate::inverse::field::{FlowReading, RotationReading};
     let rpm = |r: RotationReading| r.measured_rpm();
     assert!((rpm(parse_rotation("40rpm").unwrap()) - 40.0).abs() < 1e-12);
     let r = parse_rotation("1.5s").unwrap();
