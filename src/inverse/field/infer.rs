@@ -176,10 +176,3 @@ pub(super) fn nozzle_scale_for(design: &Design, omega: f64, flow: f64) -> Option
     };
     brent(f, lo, hi, tol).ok()
 }
-
-pub(super) fn area_equivalent(diameters: &[f64]) -> f64 {
-    if diameters.is_empty() {
-        return 0.0;
-    }
-    (diameters.iter().map(|d| d * d).sum::<f64>() / diameters.len() as f64).sqrt()
-}

@@ -75,17 +75,15 @@ pub use reading::{
     DEFAULT_VOLUME_RESOLUTION_M3,
 };
 
-use infer::{
-    area_equivalent, flow_at, implied_friction, nozzle_scale_for, with_nozzle_scale, with_pressure,
-};
+use infer::{flow_at, implied_friction, nozzle_scale_for, with_nozzle_scale, with_pressure};
 use reading::{positive, resolution};
+
+pub use crate::physics::balance::REGULATOR_LIMIT_PA;
 
 use crate::physics::balance::{rad_s, rpm, solve, solve_speed, SpinReport, SpinStatus};
 use crate::physics::design::Design;
 use crate::physics::ThrowFn;
 
-/// Above this inlet pressure a regulator is called for, Pa (80 psi; common practice).
-pub const REGULATOR_LIMIT_PA: f64 = 551_580.0;
 /// Score given to a finding that voids the speed comparison (ranks it first).
 pub const VOIDS_COMPARISON: f64 = 1.0e6;
 
@@ -361,8 +359,8 @@ fn flow_check(at_p: &Design, omega: f64, reading: &FlowReading) -> Result<FlowCh
             0.0
         },
         diameter_scale: scale,
-        nominal_effective_diameter_m: area_equivalent(&nominal_d),
-        implied_effective_diameter_m: implied_d.as_deref().map(area_equivalent),
+        nominal_effective_diameter_m: effective_diameter(at_p, 1.0),
+        implied_effective_diameter_m: scale.map(|s| effective_diameter(at_p, s)),
         nominal_diameters_m: nominal_d,
         implied_diameters_m: implied_d,
     })
