@@ -8,11 +8,12 @@
 //!   range, nudge step, get/set; validation, the editable list, sweeps, targets
 //!   and comparisons are derived from it.
 //! - [`inverse`]: sweeps, target searches and comparisons over catalogue inputs,
-//!   and the model fitted to readings (several speeds, a coast-down).
+//!   the model fitted to readings (several speeds, a coast-down), and catch-can
+//!   tests rated beside the model.
 //! - [`words`]: typed results (practice cautions) in words, in the chosen units.
 //! - [`scenario`]: the scenario file (RON with unit tags), its validation into a
-//!   [`physics::design::Design`], writing a design back, and safe saving.
-//! - [`audit`]: measured catch-can data from CSV, rated like the model's pattern.
+//!   [`physics::design::Design`], writing a design back, and safe saving; the
+//!   catch-can CSV reader (`scenario::cans`).
 //! - [`rate_map`]: the picture of water on the ground (rate scale, colours,
 //!   shading, driest quarter, heads), shared by the command line and the interface.
 //! - [`report`]: typed results put into words, in metric or US units, and the
@@ -34,7 +35,6 @@
     )
 )]
 
-pub mod audit;
 pub mod catalogue;
 pub mod cli;
 pub mod crash;

@@ -1,11 +1,12 @@
 //! The shipped catch-can example reads and rates like the model's own pattern.
 
-use spinwright::audit::{audit, read_catch_cans, CatchSet};
+use spinwright::inverse::audit::audit;
 use spinwright::physics::design::Layout;
 use spinwright::physics::layout::{overlap, uniformity, HeadPattern, OverlapOptions};
+use spinwright::scenario::cans::{read_catch_cans, CatchSet};
 use std::path::Path;
 
-fn example() -> spinwright::audit::CatchCanData {
+fn example() -> spinwright::scenario::cans::CatchCanData {
     let path = concat!(
         env!("CARGO_MANIFEST_DIR"),
         "/scenarios/catch-cans-example.csv"
@@ -39,7 +40,7 @@ fn example_leg_overlap_keeps_its_water_and_matches_direct_rating() {
     // The leg's own volume (∫ rate 2πr dr) spread over S² is the exact mean.
     assert!((over.mean_rate_mm_h / over.expected_rate_mm_h - 1.0).abs() < 0.01);
     // Same as overlapping the leg by hand.
-    let leg = spinwright::audit::leg_pattern(&data).unwrap();
+    let leg = spinwright::inverse::audit::leg_pattern(&data).unwrap();
     let again = overlap(&layout, &leg, &OverlapOptions::default()).unwrap();
     assert_eq!(again.uniformity, over.uniformity);
     assert!(leg.reach_m() == 8.5);

@@ -10,7 +10,7 @@
 //!   duplicated, replaced; numbers replaced by huge, tiny, negative and
 //!   NaN-like text; unit tags swapped; stray characters) and raw bytes;
 //! - `catch_cans`: the same for the shipped catch-can CSV through
-//!   `audit::parse_catch_cans` and `audit::audit`;
+//!   `scenario::cans::parse_catch_cans` and `inverse::audit::audit`;
 //! - `designs`: random designs inside the validation ranges (1–12 arms,
 //!   0.5–10 mm nozzles, radii up to 2 m, 10 kPa–1 MPa, every supply mode,
 //!   both bearings, brakes, wind) straight into the physics.
@@ -34,8 +34,8 @@ use proptest::prelude::*;
 use proptest::test_runner::{Config, RngAlgorithm, TestError, TestRng, TestRunner};
 
 use clap::Parser;
-use spinwright::audit::{audit, parse_catch_cans};
 use spinwright::cli::{self, Cli};
+use spinwright::inverse::audit::audit;
 use spinwright::physics::balance::{solve, torque_table};
 use spinwright::physics::coverage::{head_throw, layout_overlap};
 use spinwright::physics::design::{
@@ -44,6 +44,7 @@ use spinwright::physics::design::{
 };
 use spinwright::physics::layout::OverlapOptions;
 use spinwright::physics::pattern::PatternOptions;
+use spinwright::scenario::cans::parse_catch_cans;
 use spinwright::scenario::{self, Scenario};
 use spinwright::units::UnitSystem;
 

@@ -10,8 +10,8 @@ use std::path::{Path, PathBuf};
 use clap::{Args, ValueEnum};
 use serde::Serialize;
 
-use super::inverse::parameter_value;
 use super::text::{csv_number, sig, TextTable};
+use super::values::parameter_value;
 use super::{positive_quantity, positive_rpm, CliError, Format, Outcome, Output};
 use crate::catalogue::{self, Input};
 use crate::inverse::search::{
@@ -95,7 +95,7 @@ pub fn parse_free(text: &str) -> Result<Free, CliError> {
             "--free {text}: {why} (write NAME=FROM..TO, {example})"
         ))
     };
-    let range = super::inverse::named_range("--free", text, example)?;
+    let range = super::values::named_range("--free", text, example)?;
     let input = range.input;
     let (from, to) = range.ends.ok_or_else(|| bad("no `..` between the ends"))?;
     let from = parameter_value("--free", input, from)?;

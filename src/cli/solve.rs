@@ -8,7 +8,7 @@ use serde::Serialize;
 use super::text::TextTable;
 use super::{load_design, CliError, Format, Outcome, Output};
 use crate::physics::balance::{rpm, solve, SpinReport, SpinStatus};
-use crate::physics::checks::{cautions, peak_heights_m, Caution, Rules};
+use crate::physics::checks::practice_cautions;
 use crate::physics::coverage::{head_throw, HeadThrow};
 use crate::physics::design::Design;
 use crate::physics::hydraulics::SupplyState;
@@ -127,22 +127,6 @@ pub fn throws(head: Option<&HeadThrow>, arms: usize) -> (Vec<Option<f64>>, Optio
     }
 }
 
-/// The practice checks of a solved design (see [`crate::physics::checks`]).
-/// The drop paths are flown for their peak height only when the design
-/// states an overhead clearance.
-pub fn practice_cautions(
-    design: &Design,
-    report: &SpinReport,
-    head: Option<&HeadThrow>,
-) -> Vec<Caution> {
-    let rules = Rules::for_design(design);
-    let peaks = match (rules.clearance_m, head) {
-        (Some(_), Some(h)) => Some(peak_heights_m(design, h, &PatternOptions::default().flight)),
-        _ => None,
-    };
-    cautions(design, report, peaks.as_deref(), &rules)
-}
-
 /// Build the JSON report.
 pub fn solve_json(design: &Design, report: &SpinReport, head: Option<&HeadThrow>) -> SolveJson {
     let (nozzle_throws, wetted) = throws(head, design.rotor.arms.len());
@@ -220,7 +204,7 @@ pub fn solve_json(design: &Design, report: &SpinReport, head: Option<&HeadThrow>
             .iter()
             .map(ToString::to_string)
             .chain(
-                practice_cautions(design, report, head)
+                practice_cautions(design, report, head, &PatternOptions::default().flight)
                     .iter()
                     .map(|c| crate::words::caution(c, UnitSystem::Metric)),
             )
@@ -270,7 +254,7 @@ pub fn solve_text(
     for w in &report.warnings {
         s.push_str(&format!("  warning: {w}\n"));
     }
-    for c in practice_cautions(design, report, head) {
+    for c in practice_cautions(design, report, head, &PatternOptions::default().flight) {
         s.push_str(&format!(
             "  warning: {}\n",
             crate::words::caution(&c, units)

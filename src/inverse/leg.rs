@@ -20,7 +20,7 @@
 //! caught much less water overall is matched in shape as far as the throw
 //! allows, and the layout report says how the water compares.
 
-use crate::audit::measured_throw_m;
+use super::audit::measured_throw_m;
 use crate::numeric::minimise::golden_section;
 use crate::physics::breakup::PLAUSIBLE_BREAKUP;
 use crate::physics::design::SpraySpec;

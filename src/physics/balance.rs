@@ -26,7 +26,7 @@ mod spin_up;
 mod table;
 
 pub use spin_up::{spin_up_times, SpinUp, SPIN_UP_STEPS_PER_TIME_SCALE};
-pub use table::{table_speeds, table_top_speed, torque_table, TableRow};
+pub use table::{table_speeds, table_top_speed, torque_table, torque_table_to, TableRow};
 
 /// Above this inlet pressure a regulator is called for, Pa (80 psi; common
 /// practice: plumbing codes).

@@ -243,6 +243,24 @@ pub fn peak_heights_m(
         .collect()
 }
 
+/// The practice checks of a solved design under its own [`Rules`]
+/// ([`Rules::for_design`]). The drop paths are flown (with `flight`) for
+/// their peak height only when the design states an overhead clearance and
+/// its throw `head` was computed; without them the clearance check is left out.
+pub fn practice_cautions(
+    design: &Design,
+    report: &SpinReport,
+    head: Option<&HeadThrow>,
+    flight: &FlightOptions,
+) -> Vec<Caution> {
+    let rules = Rules::for_design(design);
+    let peaks = match (rules.clearance_m, head) {
+        (Some(_), Some(h)) => Some(peak_heights_m(design, h, flight)),
+        _ => None,
+    };
+    cautions(design, report, peaks.as_deref(), &rules)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

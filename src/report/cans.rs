@@ -2,7 +2,7 @@
 //! gap between cans and model suggests, and the spray fitted to a leg, in
 //! metric or US units.
 
-use crate::audit::{AuditReport, CanNote};
+use crate::inverse::audit::{AuditReport, CanNote};
 use crate::inverse::leg::LegFit;
 use crate::physics::layout::LayoutResult;
 use crate::physics::pattern::M_S_TO_MM_H;

@@ -15,6 +15,8 @@
 //! - [`save_scenario`] / [`scenario_text`]: save a design over the text it was
 //!   read from, changing only the values that changed (comments, order,
 //!   blank lines and notes kept; see [`edit_in_place`]).
+//! - [`cans`]: a measured catch-can test from CSV (rated in
+//!   [`crate::inverse::audit`]).
 //! - [`save_atomic`]: write a file so a crash or a full disk never leaves a
 //!   half-written scenario, keeping the previous version as `FILE.bak`.
 //!
@@ -22,6 +24,7 @@
 //! and column and what was expected; an unknown field or unit tag lists what
 //! is accepted there; a value out of range names its field path and the range.
 
+pub mod cans;
 mod convert;
 mod edit;
 mod locate;

@@ -13,6 +13,7 @@
 
 pub mod app;
 pub mod fields;
+pub mod keys;
 pub mod layout;
 pub mod theme;
 pub mod views;

@@ -14,8 +14,18 @@ pub type TableRow = TorquePoint;
 /// [`table_speeds`]: dense from rest to the operating point and around it,
 /// coarser out to the top.
 pub fn torque_table(design: &Design, report: &SpinReport, points: usize) -> Vec<TableRow> {
+    torque_table_to(design, report, table_top_speed(report), points)
+}
+
+/// As [`torque_table`], from rest to `top_rad_s` (a chart's own top speed).
+pub fn torque_table_to(
+    design: &Design,
+    report: &SpinReport,
+    top_rad_s: f64,
+    points: usize,
+) -> Vec<TableRow> {
     let model = SpinModel::new(design);
-    let top = table_top_speed(report);
+    let top = top_rad_s;
     let op = report.operating.as_ref().map(OperatingPoint::omega_rad_s);
     table_speeds(top, op, points)
         .into_iter()

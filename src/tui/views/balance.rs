@@ -10,10 +10,45 @@ use ratatui::widgets::{Axis, Chart, Dataset, GraphType, Paragraph, Row, Table, W
 use ratatui::Frame;
 
 use super::{num, unit};
-use crate::physics::balance::rpm;
+use crate::physics::balance::{rpm, table_top_speed, torque_table_to, SpinReport, TableRow};
+use crate::physics::design::Design;
 use crate::tui::app::App;
 use crate::tui::theme::Theme;
 use crate::units::{format_quantity, to_display, Dimension as D};
+
+/// Rows of the torque–speed table behind the Balance chart.
+pub const TABLE_POINTS: usize = 41;
+
+/// Top speed of the Balance chart and table, rad/s: twice the highest
+/// equilibrium (so the operating point sits mid-chart and a far-off runaway
+/// does not squash it); without one, the speed at which the tips reach 10 m/s.
+pub fn top_speed(report: &SpinReport, design: &Design) -> f64 {
+    let full = table_top_speed(report);
+    match report.equilibria.last() {
+        Some(e) if e.omega_rad_s > 0.0 => (2.0 * e.omega_rad_s).min(full.max(e.omega_rad_s * 1.2)),
+        _ => {
+            // No equilibrium to centre on: stop where the tips reach 10 m/s,
+            // well past any working speed (common practice: tips run a few m/s).
+            let r_max = design
+                .rotor
+                .arms
+                .iter()
+                .map(|a| a.radius_m)
+                .fold(0.0, f64::max);
+            if r_max > 0.0 {
+                full.min(10.0 / r_max)
+            } else {
+                full
+            }
+        }
+    }
+}
+
+/// The Balance view's torque–speed table: the model's table
+/// ([`torque_table_to`]) from rest to [`top_speed`], [`TABLE_POINTS`] rows.
+pub fn table(design: &Design, report: &SpinReport) -> Vec<TableRow> {
+    torque_table_to(design, report, top_speed(report, design), TABLE_POINTS)
+}
 
 /// The lines above the chart: operating point, start, runaway, warnings.
 fn summary(app: &App) -> Vec<Line<'static>> {

@@ -1,4 +1,5 @@
-//! The help overlay (`?`): every key, and the safety cautions.
+//! The help overlay (`?`): every key (from the key table,
+//! [`crate::tui::keys`]), and the safety cautions.
 
 use ratatui::text::Line;
 use ratatui::widgets::{Block, Paragraph};
@@ -6,78 +7,7 @@ use ratatui::Frame;
 
 use super::popup;
 use crate::tui::app::App;
-
-/// Every key the interface takes, as (keys, what they do).
-pub const KEYS: &[(&str, &str)] = &[
-    ("↑ ↓  Home End", "select a field in the list"),
-    ("← →", "nudge the value a fine step (choices: change)"),
-    ("Shift+← →", "nudge a coarse step (ten fine steps)"),
-    (
-        "Alt+← →",
-        "nudge a finer step (a tenth of a fine step; Ctrl+← → too); the hint line shows all three",
-    ),
-    (
-        "Enter",
-        "type a value with its unit: 2.8bar, 45psi, 6.5in, 22deg, auto",
-    ),
-    (
-        "",
-        "a bare number is taken in the unit shown; Esc cancels, Ctrl+U clears",
-    ),
-    (
-        "+  -",
-        "add an arm (a copy of the selected one) / remove the selected arm; arms are spread evenly",
-    ),
-    (
-        "a",
-        "arms together (one block edits every arm, azimuths evenly spread) / apart (each arm on its own); joining needs the arms alike",
-    ),
-    (
-        "*",
-        "arms apart: copy the selected arm (radius, height, rise, tube, nozzle) to every arm; azimuths kept",
-    ),
-    (
-        "Tab  Shift+Tab  1-5",
-        "switch view: Balance, Throw, Pattern, Field, Compare",
-    ),
-    (
-        "PgUp PgDn  wheel",
-        "scroll the table or the view; the wheel over the list scrolls it",
-    ),
-    ("click", "select a field, or a view by its tab"),
-    (
-        "p  r  f  t",
-        "Field view: type the measured pressure, rotation (40rpm, 1.5s, 10/14.2s), flow (12L/min, 5L in 30s), wetted radius",
-    ),
-    (
-        "n  x",
-        "Field view: add the reading above to the table of readings / drop the last row; the table is fitted (running friction, brake)",
-    ),
-    (
-        "d",
-        "Field view: type the coast-down, seconds at each completed turn after the water is shut off (0.9, 1.9, 3.0)",
-    ),
-    (
-        "k",
-        "Field view: keep the readings when another file opens (they are cleared otherwise)",
-    ),
-    ("c", "pin the current design for Compare"),
-    (
-        "[ ]  < >  x",
-        "Compare view: pick a pin (▸) / move it left or right (the first is the baseline) / drop it",
-    ),
-    ("u", "switch between metric and US units"),
-    ("s  S", "save / save as: only changed values change, comments stay; the old file is kept as .bak"),
-    (
-        "o",
-        "open a scenario from scenarios/ or this folder (c there: add to Compare)",
-    ),
-    ("?", "this help; any key closes it"),
-    (
-        "q  Ctrl+C",
-        "quit (asks first when there are unsaved changes)",
-    ),
-];
+use crate::tui::keys;
 
 /// Safety cautions shown with the help.
 pub const CAUTIONS: &[&str] = &[
@@ -110,25 +40,45 @@ fn wrap(text: &str, width: usize) -> Vec<String> {
     out
 }
 
-/// The help text as lines `width` wide, wrapped under their own column.
+/// The help text as lines `width` wide, wrapped under their own column:
+/// the key table's entries by section, the mouse, then the safety cautions.
 pub fn help_lines(width: u16) -> Vec<Line<'static>> {
     let width = width as usize;
-    let key_w = KEYS
+    let entries = keys::help_entries();
+    let key_w = entries
         .iter()
-        .map(|(k, _)| k.chars().count())
+        .map(|(_, k, _)| *k)
+        .chain(keys::MOUSE.iter().map(|(k, _)| *k))
+        .map(|k| k.chars().count())
         .max()
         .unwrap_or(0)
         .min(width / 3);
     let indent = key_w + 4;
-    let mut lines = vec![Line::raw("Keys")];
-    for (k, what) in KEYS {
+    let mut lines = Vec::new();
+    let entry = |lines: &mut Vec<Line<'static>>, k: &str, what: &str| {
         for (i, part) in wrap(what, width.saturating_sub(indent))
             .into_iter()
             .enumerate()
         {
-            let key = if i == 0 { *k } else { "" };
+            let key = if i == 0 { k } else { "" };
             lines.push(Line::raw(format!("  {key:<key_w$}  {part}")));
         }
+    };
+    let mut section = "";
+    for (s, k, what) in &entries {
+        if *s != section {
+            if !section.is_empty() {
+                lines.push(Line::raw(""));
+            }
+            lines.push(Line::raw(*s));
+            section = s;
+        }
+        entry(&mut lines, k, what);
+    }
+    lines.push(Line::raw(""));
+    lines.push(Line::raw("Mouse"));
+    for (k, what) in keys::MOUSE {
+        entry(&mut lines, k, what);
     }
     lines.push(Line::raw(""));
     lines.push(Line::raw("Safety"));
@@ -149,7 +99,7 @@ pub fn draw(app: &App, frame: &mut Frame, scroll: u16) {
     let r = popup(frame, w, h);
     let block = Block::bordered()
         .title(Line::from(" help "))
-        .title_bottom(Line::from(" ↑↓ scroll · any other key closes "))
+        .title_bottom(Line::from(super::keys_line(app)))
         .border_style(app.theme.heading());
     let inner_w = w.saturating_sub(2);
     let lines = help_lines(inner_w);

@@ -19,11 +19,13 @@ use ratatui::widgets::{Block, Borders, Clear, Paragraph, Wrap};
 use ratatui::Frame;
 
 use super::app::{App, Confirm, InputTarget, Level, Measure, Mode, View};
-use super::fields::{self, Arms, Field, Kind, Row, Stride};
+use super::fields::{self, Field, Kind, Row, Stride};
+use super::keys;
 use super::layout;
 use crate::physics::balance::{rpm, SpinStatus};
 use crate::units::{format_quantity, Dimension as D};
 
+pub use balance::table as balance_table;
 pub use compare::differences_per_design as compare_differences;
 pub use help::help_lines;
 
@@ -318,79 +320,19 @@ fn draw_message(app: &App, frame: &mut Frame, area: Rect) {
     frame.render_widget(Paragraph::new(line), area);
 }
 
-/// The keys that work in the present state, most useful first.
+/// The keys that work in the present state, most useful first (from the
+/// key table, [`crate::tui::keys`]).
 pub fn keys_here(app: &App) -> Vec<(&'static str, &'static str)> {
-    match &app.mode {
-        Mode::Typing(_) => vec![
-            ("Enter", "keep"),
-            ("Esc", "cancel"),
-            ("Bksp", "delete"),
-            ("^U", "clear"),
-        ],
-        Mode::Help(_) => vec![("↑↓", "scroll"), ("any other key", "close")],
-        Mode::Picker(_) => vec![
-            ("↑↓", "choose"),
-            ("Enter", "open"),
-            ("c", "add to Compare"),
-            ("Esc", "close"),
-        ],
-        Mode::Confirm(Confirm::QuitUnsaved) => vec![
-            ("s", "save and quit"),
-            ("y", "quit without saving"),
-            ("Esc", "stay"),
-        ],
-        Mode::Confirm(_) => vec![("y", "yes"), ("n/Esc", "no")],
-        Mode::Normal => {
-            let mut k = vec![("?", "help"), ("↑↓", "field")];
-            match app.selected_field().map(|f| (f, f.kind())) {
-                Some((_, Kind::Choice)) => k.push(("←→", "change")),
-                Some((_, Kind::Text)) => k.push(("Enter", "type")),
-                Some(_) => k.extend([
-                    ("←→", "nudge"),
-                    ("⇧←→", "coarse"),
-                    ("Alt←→", "finer"),
-                    ("Enter", "type"),
-                ]),
-                None => {}
-            }
-            if app.selected_field().is_some_and(|f| f.input.per_arm()) {
-                k.extend([("+", "arm"), ("-", "arm")]);
-                match app.arms {
-                    Arms::Together => k.push(("a", "split arms")),
-                    Arms::Apart => {
-                        k.push(("*", "arm to all"));
-                        if fields::arms_alike(&app.design).is_ok() {
-                            k.push(("a", "join arms"));
-                        }
-                    }
-                }
-            }
-            match app.view {
-                View::Balance => k.push(("PgUp/Dn", "table")),
-                View::Field => k.extend([
-                    ("p", "pressure"),
-                    ("r", "rotation"),
-                    ("f", "flow"),
-                    ("t", "throw"),
-                    ("n/x", "table row"),
-                    ("d", "coast-down"),
-                    ("k", "keep"),
-                ]),
-                View::Compare => k.extend([("[ ]", "pick pin"), ("< >", "move"), ("x", "unpin")]),
-                View::Throw | View::Pattern => {}
-            }
-            k.extend([
-                ("Tab/1-5", "view"),
-                ("u", "units"),
-                ("s", "save"),
-                ("S", "save as"),
-                ("o", "open"),
-                ("c", "pin"),
-                ("q", "quit"),
-            ]);
-            k
-        }
-    }
+    keys::hints(app.key_place(), &app.key_context())
+}
+
+/// The keys of a popup's bottom border: `keys word · keys word`.
+pub fn keys_line(app: &App) -> String {
+    let items: Vec<String> = keys_here(app)
+        .iter()
+        .map(|(k, w)| format!("{k} {w}"))
+        .collect();
+    format!(" {} ", items.join(" · "))
 }
 
 fn draw_bottom(app: &App, frame: &mut Frame, area: Rect) {
@@ -434,7 +376,7 @@ fn draw_picker(app: &App, frame: &mut Frame, p: &super::app::Picker) {
     let r = popup(frame, 60, h);
     let block = Block::bordered()
         .title(Line::from(" open a scenario "))
-        .title_bottom(Line::from(" Enter open · c add to Compare · Esc close "))
+        .title_bottom(Line::from(keys_line(app)))
         .border_style(t.heading());
     let inner = block.inner(r);
     frame.render_widget(block, r);

@@ -1,0 +1,953 @@
+//! Every key the interface takes, written once.
+//!
+//! [`KEYS`] is the one table: each entry names its keys, where they work
+//! (the keyboard mode and, when normal, the views), the word the bottom line
+//! shows for them and when, the line the help screen gives them, and the
+//! [`Action`] they start. Dispatch ([`find`], called by the app), the bottom
+//! hint line ([`hints`]) and the help screen ([`help_entries`]) are all read
+//! from it, so adding a key is one entry here (plus, for a new kind of
+//! action, an [`Action`] variant and its arm in the app's dispatch).
+
+use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
+
+use super::app::{Measure, View};
+use super::fields::{Arms, Kind};
+
+/// A key as the table names it.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Key {
+    /// The key with any modifiers held.
+    Any(KeyCode),
+    /// The key without Shift, Alt or Ctrl (a character may carry Shift,
+    /// as `S` and `?` do).
+    Plain(KeyCode),
+    /// The key with Shift and without Alt or Ctrl.
+    Shift(KeyCode),
+    /// The key with Alt or Ctrl held.
+    AltOrCtrl(KeyCode),
+    /// The character with Ctrl held.
+    Ctrl(char),
+    /// Any character without Ctrl (typed into a value).
+    AnyChar,
+    /// Any key no other entry of the same place takes.
+    Other,
+}
+
+impl Key {
+    /// Whether the key press `k` is this key.
+    pub fn matches(self, k: &KeyEvent) -> bool {
+        let m = k.modifiers;
+        let ctrl = m.contains(KeyModifiers::CONTROL);
+        let alt = m.contains(KeyModifiers::ALT);
+        let shift = m.contains(KeyModifiers::SHIFT);
+        match self {
+            Key::Any(code) => k.code == code,
+            Key::Plain(code @ KeyCode::Char(_)) => k.code == code && !ctrl && !alt,
+            Key::Plain(code) => k.code == code && !ctrl && !alt && !shift,
+            Key::Shift(code) => k.code == code && shift && !ctrl && !alt,
+            Key::AltOrCtrl(code) => k.code == code && (ctrl || alt),
+            Key::Ctrl(c) => {
+                ctrl && matches!(k.code, KeyCode::Char(x) if x.eq_ignore_ascii_case(&c))
+            }
+            Key::AnyChar => matches!(k.code, KeyCode::Char(_)) && !ctrl,
+            Key::Other => true,
+        }
+    }
+
+    /// A key press that is this key (for tests and scripted runs).
+    pub fn example(self) -> KeyEvent {
+        let (code, mods) = match self {
+            Key::Any(code) | Key::Plain(code) => (code, KeyModifiers::NONE),
+            Key::Shift(code) => (code, KeyModifiers::SHIFT),
+            Key::AltOrCtrl(code) => (code, KeyModifiers::ALT),
+            Key::Ctrl(c) => (KeyCode::Char(c), KeyModifiers::CONTROL),
+            Key::AnyChar => (KeyCode::Char('7'), KeyModifiers::NONE),
+            Key::Other => (KeyCode::F(9), KeyModifiers::NONE),
+        };
+        KeyEvent::new(code, mods)
+    }
+}
+
+/// Where a key works: a keyboard mode, and in the normal mode the views.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Scope {
+    /// Every mode (typing and questions included).
+    Everywhere,
+    /// Moving about and editing, in every view.
+    Normal,
+    /// Moving about and editing, in one view only.
+    InView(View),
+    /// Typing a value or a file name.
+    Typing,
+    /// The help screen.
+    Help,
+    /// The file picker.
+    Picker,
+    /// Asked whether to quit with unsaved changes.
+    QuitQuestion,
+    /// Asked any other yes/no question (open over unsaved changes, overwrite).
+    Question,
+}
+
+impl Scope {
+    /// The heading of the help screen's section for keys of this scope.
+    pub fn section(self) -> &'static str {
+        match self {
+            Scope::Everywhere | Scope::Normal | Scope::InView(_) => "Keys",
+            Scope::Typing => "Typing a value or a file name",
+            Scope::Help => "This help",
+            Scope::Picker => "Choosing a file (o)",
+            Scope::QuitQuestion | Scope::Question => "Questions",
+        }
+    }
+}
+
+/// What a key does. The app's dispatch gives each its meaning.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Action {
+    /// Quit, asking first when there are unsaved changes.
+    Quit,
+    /// Select a field: ↑ ↓ one at a time, Home and End the first and last.
+    Select,
+    /// Nudge the selected value a fine step (← back, → on); choices change.
+    NudgeFine,
+    /// Nudge a coarse step (ten fine steps).
+    NudgeCoarse,
+    /// Nudge a finer step (a tenth of a fine step).
+    NudgeFiner,
+    /// Type the selected value (a choice changes instead).
+    StartTyping,
+    /// Add an arm, a copy of the selected one.
+    AddArm,
+    /// Remove the selected arm.
+    RemoveArm,
+    /// Edit the arms together or apart.
+    ToggleArms,
+    /// Copy the selected arm to every arm.
+    CopyArm,
+    /// Scroll the view on the right (Page Up back, Page Down on).
+    ScrollView,
+    /// Type a reading in the Field view.
+    Measure(Measure),
+    /// Add the readings above to the table of readings.
+    AddReadingRow,
+    /// Drop the last row of the table of readings.
+    DropReadingRow,
+    /// Keep the readings when another file opens.
+    KeepReadings,
+    /// Pick the previous (`[`) or next (`]`) pin.
+    PickPin,
+    /// Move the picked pin left (`<`) or right (`>`).
+    MovePin,
+    /// Drop the picked pin.
+    DropPin,
+    /// Switch view: Tab on, Shift+Tab back, a digit to that view.
+    SwitchView,
+    /// Switch between metric and US units.
+    ToggleUnits,
+    /// Save to the file the design came from.
+    Save,
+    /// Save under another name.
+    SaveAs,
+    /// Open the file picker.
+    Open,
+    /// Pin the current design for Compare.
+    PinDesign,
+    /// Show the help screen.
+    ShowHelp,
+    /// Keep the typed text.
+    FinishTyping,
+    /// Cancel typing.
+    CancelTyping,
+    /// Delete the last character typed.
+    DeleteChar,
+    /// Clear the typed text.
+    ClearTyping,
+    /// Add the character to the typed text.
+    TypeChar,
+    /// Scroll the help a line (↑ back, ↓ on).
+    HelpLine,
+    /// Scroll the help a page.
+    HelpPage,
+    /// Close the help.
+    CloseHelp,
+    /// Move in the file picker.
+    PickerMove,
+    /// Open the highlighted file.
+    PickerOpen,
+    /// Pin the highlighted file for Compare.
+    PickerPin,
+    /// Close the picker.
+    PickerClose,
+    /// Save, then quit.
+    SaveAndQuit,
+    /// Answer yes.
+    Yes,
+    /// Answer no.
+    No,
+}
+
+/// The state the bottom line's words depend on.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Context {
+    /// How the selected field is edited (None when nothing is selected).
+    pub kind: Option<Kind>,
+    /// The selected field belongs to an arm.
+    pub per_arm: bool,
+    /// Whether the list edits the arms together or apart.
+    pub arms: Arms,
+    /// The arms are alike (they could be joined).
+    pub alike: bool,
+    /// The view on the right.
+    pub view: View,
+}
+
+/// When the bottom line shows an entry's word.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum When {
+    /// Always (where the entry works).
+    Always,
+    /// The selected field is a number.
+    Number,
+    /// The selected field is a choice.
+    Choice,
+    /// The selected field is a number or text.
+    Typed,
+    /// The selected field belongs to an arm.
+    PerArm,
+    /// An arm's field is selected and the arms are edited together.
+    ArmsTogether,
+    /// An arm's field is selected and the arms are edited apart.
+    ArmsApart,
+    /// As [`When::ArmsApart`], with the arms alike.
+    ArmsApartAlike,
+    /// The view is this one.
+    Viewing(View),
+}
+
+impl When {
+    /// Whether the condition holds.
+    pub fn holds(self, c: &Context) -> bool {
+        let number = matches!(c.kind, Some(Kind::Number | Kind::OptionalNumber));
+        match self {
+            When::Always => true,
+            When::Number => number,
+            When::Choice => c.kind == Some(Kind::Choice),
+            When::Typed => number || c.kind == Some(Kind::Text),
+            When::PerArm => c.per_arm,
+            When::ArmsTogether => c.per_arm && c.arms == Arms::Together,
+            When::ArmsApart => c.per_arm && c.arms == Arms::Apart,
+            When::ArmsApartAlike => c.per_arm && c.arms == Arms::Apart && c.alike,
+            When::Viewing(v) => c.view == v,
+        }
+    }
+}
+
+/// One entry of the key table.
+#[derive(Debug, Clone, Copy)]
+pub struct Binding {
+    /// The keys.
+    pub keys: &'static [Key],
+    /// Where they work.
+    pub scope: Scope,
+    /// The keys as the bottom line writes them (short).
+    pub hint_key: &'static str,
+    /// The bottom line's word for them: the first whose condition holds;
+    /// none shown when none holds.
+    pub hint: &'static [(When, &'static str)],
+    /// The keys as the help screen writes them.
+    pub help_key: &'static str,
+    /// What they do, for the help screen.
+    pub help: &'static str,
+    /// What they start.
+    pub action: Action,
+}
+
+use Key::{AltOrCtrl, Any, Ctrl, Plain, Shift};
+use KeyCode::{
+    BackTab, Backspace, Char, Down, End, Enter, Esc, Home, Left, PageDown, PageUp, Right, Tab, Up,
+};
+
+/// No word on the bottom line.
+const NO_HINT: &[(When, &str)] = &[];
+
+const fn key(
+    keys: &'static [Key],
+    scope: Scope,
+    hint_key: &'static str,
+    hint: &'static [(When, &'static str)],
+    help_key: &'static str,
+    help: &'static str,
+    action: Action,
+) -> Binding {
+    Binding {
+        keys,
+        scope,
+        hint_key,
+        hint,
+        help_key,
+        help,
+        action,
+    }
+}
+
+/// Every key the interface takes, in the order the bottom line and the help
+/// screen give them (the most useful first).
+pub const KEYS: &[Binding] = &[
+    // Moving about and editing.
+    key(
+        &[Plain(Char('?'))],
+        Scope::Normal,
+        "?",
+        &[(When::Always, "help")],
+        "?",
+        "this help, with the safety cautions",
+        Action::ShowHelp,
+    ),
+    key(
+        &[Any(Up), Any(Down), Any(Home), Any(End)],
+        Scope::Normal,
+        "↑↓",
+        &[(When::Always, "field")],
+        "↑ ↓  Home End",
+        "select a field in the list",
+        Action::Select,
+    ),
+    key(
+        &[Plain(Left), Plain(Right)],
+        Scope::Normal,
+        "←→",
+        &[(When::Choice, "change"), (When::Number, "nudge")],
+        "← →",
+        "nudge the value a fine step (choices: change)",
+        Action::NudgeFine,
+    ),
+    key(
+        &[Shift(Left), Shift(Right)],
+        Scope::Normal,
+        "⇧←→",
+        &[(When::Number, "coarse")],
+        "Shift+← →",
+        "nudge a coarse step (ten fine steps)",
+        Action::NudgeCoarse,
+    ),
+    key(
+        &[AltOrCtrl(Left), AltOrCtrl(Right)],
+        Scope::Normal,
+        "Alt←→",
+        &[(When::Number, "finer")],
+        "Alt+← →",
+        "nudge a finer step (a tenth of a fine step; Ctrl+← → too); the message line shows all three",
+        Action::NudgeFiner,
+    ),
+    key(
+        &[Any(Enter)],
+        Scope::Normal,
+        "Enter",
+        &[(When::Typed, "type")],
+        "Enter",
+        "type a value with its unit: 2.8bar, 45psi, 6.5in, 22deg, auto; a bare number is taken in the unit shown",
+        Action::StartTyping,
+    ),
+    key(
+        &[Plain(Char('+'))],
+        Scope::Normal,
+        "+",
+        &[(When::PerArm, "arm")],
+        "+",
+        "add an arm (a copy of the selected one); arms are spread evenly",
+        Action::AddArm,
+    ),
+    key(
+        &[Plain(Char('-'))],
+        Scope::Normal,
+        "-",
+        &[(When::PerArm, "arm")],
+        "-",
+        "remove the selected arm; arms are spread evenly",
+        Action::RemoveArm,
+    ),
+    key(
+        &[Plain(Char('a'))],
+        Scope::Normal,
+        "a",
+        &[
+            (When::ArmsTogether, "split arms"),
+            (When::ArmsApartAlike, "join arms"),
+        ],
+        "a",
+        "arms together (one block edits every arm, azimuths evenly spread) / apart (each arm on its own); joining needs the arms alike",
+        Action::ToggleArms,
+    ),
+    key(
+        &[Plain(Char('*'))],
+        Scope::Normal,
+        "*",
+        &[(When::ArmsApart, "arm to all")],
+        "*",
+        "arms apart: copy the selected arm (radius, height, rise, tube, nozzle) to every arm; azimuths kept",
+        Action::CopyArm,
+    ),
+    key(
+        &[Any(PageUp), Any(PageDown)],
+        Scope::Normal,
+        "PgUp/Dn",
+        &[(When::Viewing(View::Balance), "table")],
+        "PgUp PgDn",
+        "scroll the table or the view (the mouse wheel too; over the list it scrolls the list)",
+        Action::ScrollView,
+    ),
+    // The Field view.
+    key(
+        &[Plain(Char('p'))],
+        Scope::InView(View::Field),
+        "p",
+        &[(When::Always, "pressure")],
+        "p",
+        "type the measured inlet pressure (2.8bar, 40psi)",
+        Action::Measure(Measure::Pressure),
+    ),
+    key(
+        &[Plain(Char('r'))],
+        Scope::InView(View::Field),
+        "r",
+        &[(When::Always, "rotation")],
+        "r",
+        "type the measured rotation (40rpm, 1.5s per turn, 10/14.2s)",
+        Action::Measure(Measure::Rotation),
+    ),
+    key(
+        &[Plain(Char('f'))],
+        Scope::InView(View::Field),
+        "f",
+        &[(When::Always, "flow")],
+        "f",
+        "type the measured flow (12L/min, 5L in 30s)",
+        Action::Measure(Measure::Flow),
+    ),
+    key(
+        &[Plain(Char('t'))],
+        Scope::InView(View::Field),
+        "t",
+        &[(When::Always, "throw")],
+        "t",
+        "type the measured wetted radius (7.5m, 25ft)",
+        Action::Measure(Measure::Throw),
+    ),
+    key(
+        &[Plain(Char('n'))],
+        Scope::InView(View::Field),
+        "n",
+        &[(When::Always, "row")],
+        "n",
+        "add the reading above to the table of readings; the table is fitted (running friction, brake)",
+        Action::AddReadingRow,
+    ),
+    key(
+        &[Plain(Char('x'))],
+        Scope::InView(View::Field),
+        "x",
+        &[(When::Always, "drop row")],
+        "x",
+        "drop the last row of the table of readings",
+        Action::DropReadingRow,
+    ),
+    key(
+        &[Plain(Char('d'))],
+        Scope::InView(View::Field),
+        "d",
+        &[(When::Always, "coast-down")],
+        "d",
+        "type the coast-down, seconds at each completed turn after the water is shut off (0.9, 1.9, 3.0)",
+        Action::Measure(Measure::Coast),
+    ),
+    key(
+        &[Plain(Char('k'))],
+        Scope::InView(View::Field),
+        "k",
+        &[(When::Always, "keep")],
+        "k",
+        "keep the readings when another file opens (they are cleared otherwise)",
+        Action::KeepReadings,
+    ),
+    // The Compare view.
+    key(
+        &[Plain(Char('[')), Plain(Char(']'))],
+        Scope::InView(View::Compare),
+        "[ ]",
+        &[(When::Always, "pick pin")],
+        "[ ]",
+        "pick a pin (▸): the one before / after",
+        Action::PickPin,
+    ),
+    key(
+        &[Plain(Char('<')), Plain(Char('>'))],
+        Scope::InView(View::Compare),
+        "< >",
+        &[(When::Always, "move")],
+        "< >",
+        "move the picked pin left / right (the first is the baseline)",
+        Action::MovePin,
+    ),
+    key(
+        &[Plain(Char('x'))],
+        Scope::InView(View::Compare),
+        "x",
+        &[(When::Always, "unpin")],
+        "x",
+        "drop the picked pin",
+        Action::DropPin,
+    ),
+    // Everywhere in the normal mode.
+    key(
+        &[
+            Any(Tab),
+            Any(BackTab),
+            Plain(Char('1')),
+            Plain(Char('2')),
+            Plain(Char('3')),
+            Plain(Char('4')),
+            Plain(Char('5')),
+        ],
+        Scope::Normal,
+        "Tab/1-5",
+        &[(When::Always, "view")],
+        "Tab  Shift+Tab  1-5",
+        "switch view: Balance, Throw, Pattern, Field, Compare (or click a tab)",
+        Action::SwitchView,
+    ),
+    key(
+        &[Plain(Char('u'))],
+        Scope::Normal,
+        "u",
+        &[(When::Always, "units")],
+        "u",
+        "switch between metric and US units",
+        Action::ToggleUnits,
+    ),
+    key(
+        &[Plain(Char('s'))],
+        Scope::Normal,
+        "s",
+        &[(When::Always, "save")],
+        "s",
+        "save: only changed values change, comments stay; the old file is kept as .bak",
+        Action::Save,
+    ),
+    key(
+        &[Plain(Char('S'))],
+        Scope::Normal,
+        "S",
+        &[(When::Always, "save as")],
+        "S",
+        "save under another name",
+        Action::SaveAs,
+    ),
+    key(
+        &[Plain(Char('o'))],
+        Scope::Normal,
+        "o",
+        &[(When::Always, "open")],
+        "o",
+        "open a scenario from scenarios/ or this folder",
+        Action::Open,
+    ),
+    key(
+        &[Plain(Char('c'))],
+        Scope::Normal,
+        "c",
+        &[(When::Always, "pin")],
+        "c",
+        "pin the current design for Compare",
+        Action::PinDesign,
+    ),
+    key(
+        &[Plain(Char('q'))],
+        Scope::Normal,
+        "q",
+        &[(When::Always, "quit")],
+        "q",
+        "quit (asks first when there are unsaved changes)",
+        Action::Quit,
+    ),
+    key(
+        &[Ctrl('c')],
+        Scope::Everywhere,
+        "^C",
+        NO_HINT,
+        "Ctrl+C",
+        "quit from anywhere, typing included (asks first when there are unsaved changes)",
+        Action::Quit,
+    ),
+    // Typing.
+    key(
+        &[Any(Enter)],
+        Scope::Typing,
+        "Enter",
+        &[(When::Always, "keep")],
+        "Enter",
+        "keep the value (a refused value leaves the old one and says why)",
+        Action::FinishTyping,
+    ),
+    key(
+        &[Any(Esc)],
+        Scope::Typing,
+        "Esc",
+        &[(When::Always, "cancel")],
+        "Esc",
+        "cancel",
+        Action::CancelTyping,
+    ),
+    key(
+        &[Any(Backspace)],
+        Scope::Typing,
+        "Bksp",
+        &[(When::Always, "delete")],
+        "Backspace",
+        "delete the last character",
+        Action::DeleteChar,
+    ),
+    key(
+        &[Ctrl('u')],
+        Scope::Typing,
+        "^U",
+        &[(When::Always, "clear")],
+        "Ctrl+U",
+        "clear the text",
+        Action::ClearTyping,
+    ),
+    key(
+        &[Key::AnyChar],
+        Scope::Typing,
+        "",
+        NO_HINT,
+        "characters",
+        "are typed; a bare number is taken in the unit shown",
+        Action::TypeChar,
+    ),
+    // The help screen.
+    key(
+        &[Any(Up), Any(Down), Plain(Char('k')), Plain(Char('j'))],
+        Scope::Help,
+        "↑↓",
+        &[(When::Always, "scroll")],
+        "↑ ↓  k j",
+        "scroll a line",
+        Action::HelpLine,
+    ),
+    key(
+        &[Any(PageUp), Any(PageDown)],
+        Scope::Help,
+        "PgUp/Dn",
+        NO_HINT,
+        "PgUp PgDn",
+        "scroll a page",
+        Action::HelpPage,
+    ),
+    key(
+        &[Key::Other],
+        Scope::Help,
+        "any other key",
+        &[(When::Always, "closes")],
+        "any other key",
+        "closes the help",
+        Action::CloseHelp,
+    ),
+    // The file picker.
+    key(
+        &[Any(Up), Any(Down)],
+        Scope::Picker,
+        "↑↓",
+        &[(When::Always, "choose")],
+        "↑ ↓",
+        "choose a file",
+        Action::PickerMove,
+    ),
+    key(
+        &[Any(Enter)],
+        Scope::Picker,
+        "Enter",
+        &[(When::Always, "open")],
+        "Enter",
+        "open it (asks first when there are unsaved changes)",
+        Action::PickerOpen,
+    ),
+    key(
+        &[Plain(Char('c'))],
+        Scope::Picker,
+        "c",
+        &[(When::Always, "add to Compare")],
+        "c",
+        "pin it for Compare instead",
+        Action::PickerPin,
+    ),
+    key(
+        &[Any(Esc)],
+        Scope::Picker,
+        "Esc",
+        &[(When::Always, "close")],
+        "Esc",
+        "close the picker",
+        Action::PickerClose,
+    ),
+    // Questions.
+    key(
+        &[Plain(Char('s'))],
+        Scope::QuitQuestion,
+        "s",
+        &[(When::Always, "save and quit")],
+        "s",
+        "unsaved changes on quitting: save, then quit",
+        Action::SaveAndQuit,
+    ),
+    key(
+        &[Plain(Char('y')), Plain(Char('q'))],
+        Scope::QuitQuestion,
+        "y",
+        &[(When::Always, "quit without saving")],
+        "y  q",
+        "unsaved changes on quitting: quit without saving",
+        Action::Yes,
+    ),
+    key(
+        &[Any(Esc), Plain(Char('n'))],
+        Scope::QuitQuestion,
+        "Esc",
+        &[(When::Always, "stay")],
+        "Esc  n",
+        "unsaved changes on quitting: stay",
+        Action::No,
+    ),
+    key(
+        &[Plain(Char('y'))],
+        Scope::Question,
+        "y",
+        &[(When::Always, "yes")],
+        "y",
+        "other questions (open over unsaved changes, overwrite a file): yes",
+        Action::Yes,
+    ),
+    key(
+        &[Plain(Char('n')), Any(Esc)],
+        Scope::Question,
+        "n/Esc",
+        &[(When::Always, "no")],
+        "n  Esc",
+        "other questions: no",
+        Action::No,
+    ),
+];
+
+/// What the mouse does, for the help screen (the mouse is not in [`KEYS`]:
+/// it acts where it points).
+pub const MOUSE: &[(&str, &str)] = &[
+    ("click", "select a field, or a view by its tab"),
+    (
+        "wheel",
+        "scroll what is under the pointer: the list, the table or the view",
+    ),
+];
+
+/// Whether an entry of `scope` works in `place` (a mode's scope, with the
+/// view when normal).
+fn applies(scope: Scope, place: Scope, view: View) -> bool {
+    match scope {
+        Scope::Everywhere => true,
+        Scope::Normal => place == Scope::Normal,
+        Scope::InView(v) => place == Scope::Normal && view == v,
+        s => s == place,
+    }
+}
+
+/// The entry a key press starts in `place` (the keyboard mode's scope:
+/// `Normal`, `Typing`, `Help`, `Picker`, `QuitQuestion` or `Question`) with
+/// `view` on the right; a catch-all ([`Key::Other`]) only when no other
+/// entry takes the key.
+pub fn find(place: Scope, view: View, k: &KeyEvent) -> Option<&'static Binding> {
+    let here = || KEYS.iter().filter(|b| applies(b.scope, place, view));
+    here()
+        .find(|b| {
+            b.keys
+                .iter()
+                .any(|key| *key != Key::Other && key.matches(k))
+        })
+        .or_else(|| here().find(|b| b.keys.contains(&Key::Other)))
+}
+
+/// The bottom line: (keys, word) of the entries that work in `place` and
+/// whose word's condition holds, in table order.
+pub fn hints(place: Scope, c: &Context) -> Vec<(&'static str, &'static str)> {
+    KEYS.iter()
+        .filter(|b| applies(b.scope, place, c.view) && b.scope != Scope::Everywhere)
+        .filter_map(|b| {
+            b.hint
+                .iter()
+                .find(|(when, _)| when.holds(c))
+                .map(|(_, word)| (b.hint_key, *word))
+        })
+        .collect()
+}
+
+/// The help screen's entries: (section, keys, what they do), in table order
+/// within sections that follow the table's order; an entry for one view
+/// says which.
+pub fn help_entries() -> Vec<(&'static str, &'static str, String)> {
+    let mut sections: Vec<&'static str> = Vec::new();
+    for b in KEYS {
+        if !sections.contains(&b.scope.section()) {
+            sections.push(b.scope.section());
+        }
+    }
+    sections
+        .into_iter()
+        .flat_map(|s| {
+            KEYS.iter()
+                .filter(move |b| b.scope.section() == s)
+                .map(move |b| {
+                    let what = match b.scope {
+                        Scope::InView(v) => format!("{} view: {}", v.title(), b.help),
+                        _ => b.help.to_string(),
+                    };
+                    (s, b.help_key, what)
+                })
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Every mode's scope.
+    const PLACES: [Scope; 6] = [
+        Scope::Normal,
+        Scope::Typing,
+        Scope::Help,
+        Scope::Picker,
+        Scope::QuitQuestion,
+        Scope::Question,
+    ];
+
+    /// Key presses to try: every key of the table with every set of modifiers.
+    fn presses() -> Vec<KeyEvent> {
+        let mods = [
+            KeyModifiers::NONE,
+            KeyModifiers::SHIFT,
+            KeyModifiers::ALT,
+            KeyModifiers::CONTROL,
+            KeyModifiers::SHIFT | KeyModifiers::ALT,
+            KeyModifiers::SHIFT | KeyModifiers::CONTROL,
+        ];
+        let mut codes: Vec<KeyCode> = Vec::new();
+        for b in KEYS {
+            for k in b.keys {
+                let code = k.example().code;
+                if !codes.contains(&code) {
+                    codes.push(code);
+                }
+            }
+        }
+        codes
+            .iter()
+            .flat_map(|c| mods.iter().map(move |m| KeyEvent::new(*c, *m)))
+            .collect()
+    }
+
+    #[test]
+    fn every_key_has_a_help_line_and_finds_its_own_entry() {
+        for b in KEYS {
+            assert!(!b.keys.is_empty(), "{:?} has no key", b.action);
+            assert!(
+                !b.help.trim().is_empty() && !b.help_key.trim().is_empty(),
+                "{:?} has no help line",
+                b.action
+            );
+            let place = match b.scope {
+                Scope::Everywhere | Scope::InView(_) => Scope::Normal,
+                s => s,
+            };
+            let view = match b.scope {
+                Scope::InView(v) => v,
+                _ => View::Balance,
+            };
+            for k in b.keys {
+                let found = find(place, view, &k.example()).map(|f| (f.scope, f.action));
+                assert_eq!(found, Some((b.scope, b.action)), "{k:?} in {:?}", b.scope);
+            }
+        }
+        let help = help_entries();
+        assert_eq!(help.len(), KEYS.len());
+    }
+
+    #[test]
+    fn no_two_entries_take_the_same_key_in_the_same_place() {
+        for place in PLACES {
+            for view in View::ALL {
+                for k in presses() {
+                    let takers: Vec<&Binding> = KEYS
+                        .iter()
+                        .filter(|b| applies(b.scope, place, view))
+                        .filter(|b| {
+                            b.keys
+                                .iter()
+                                .any(|key| *key != Key::Other && key.matches(&k))
+                        })
+                        .collect();
+                    assert!(
+                        takers.len() <= 1,
+                        "{k:?} in {place:?}/{view:?} is taken by {:?}",
+                        takers.iter().map(|b| b.action).collect::<Vec<_>>()
+                    );
+                }
+                let others = KEYS
+                    .iter()
+                    .filter(|b| applies(b.scope, place, view) && b.keys.contains(&Key::Other))
+                    .count();
+                assert!(others <= 1, "two catch-alls in {place:?}");
+            }
+        }
+    }
+
+    #[test]
+    fn the_hint_line_names_only_keys_of_the_table() {
+        let kinds = [
+            None,
+            Some(Kind::Number),
+            Some(Kind::OptionalNumber),
+            Some(Kind::Choice),
+            Some(Kind::Text),
+        ];
+        for place in PLACES {
+            for view in View::ALL {
+                for kind in kinds {
+                    for arms in [Arms::Together, Arms::Apart] {
+                        for (per_arm, alike) in [(false, false), (true, false), (true, true)] {
+                            let c = Context {
+                                kind,
+                                per_arm,
+                                arms,
+                                alike,
+                                view,
+                            };
+                            let shown = hints(place, &c);
+                            assert!(!shown.is_empty(), "{place:?}: an empty bottom line");
+                            for (k, word) in shown {
+                                assert!(!k.is_empty() && !word.is_empty());
+                                // The keys named are an entry's that works here.
+                                let entry = KEYS
+                                    .iter()
+                                    .find(|b| b.hint_key == k && applies(b.scope, place, view))
+                                    .unwrap_or_else(|| panic!("{k} is no key here"));
+                                assert!(entry.hint.iter().any(|(_, w)| *w == word));
+                                for key in entry.keys {
+                                    let f = find(place, view, &key.example());
+                                    assert_eq!(f.map(|f| f.action), Some(entry.action), "{k}");
+                                }
+                            }
+                        }
+                    }
+                }
+            }
+        }
+    }
+}
