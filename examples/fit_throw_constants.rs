@@ -21,48 +21,14 @@
 // Index loops read as the textbook Nelder–Mead.
 #![allow(clippy::needless_range_loop)]
 
-use nalgebra::Vector3;
 use spinwright::physics::breakup::JetModel;
-use spinwright::physics::design::{SpraySpec, Wind};
-use spinwright::physics::fluid::{AirProps, WaterProps};
-use spinwright::physics::jet::JetExit;
+use spinwright::physics::design::SpraySpec;
+use spinwright::physics::fixtures::published_throw::{
+    env, nozzle, published_m, GEOMETRIES, PRESSURES_PA, SIZES_MM,
+};
 use spinwright::physics::pattern::wetted_radius;
-use spinwright::physics::trajectory::{FlightEnv, FlightOptions};
-use std::f64::consts::PI;
+use spinwright::physics::trajectory::FlightOptions;
 use std::fmt::Write as _;
-
-const SIZES_MM: [f64; 7] = [2.0, 3.0, 4.0, 5.0, 6.0, 7.0, 8.0];
-const PRESSURES_PA: [f64; 4] = [150e3, 250e3, 350e3, 450e3];
-const GEOMETRIES: [(f64, f64); 2] = [(25.0, 0.5), (28.0, 1.0)];
-/// Velocity and discharge coefficients of a smooth tapered nozzle (common practice).
-const CV: f64 = 0.98;
-const CD: f64 = 0.96;
-
-fn env() -> FlightEnv {
-    FlightEnv::new(
-        &AirProps::at(20.0, 0.0),
-        &WaterProps::at(20.0),
-        &Wind::default(),
-    )
-}
-
-fn nozzle(d_m: f64, p_pa: f64, angle_deg: f64, height_m: f64) -> JetExit {
-    let ideal = (2.0 * p_pa / env().water_density_kg_m3).sqrt();
-    let a = angle_deg.to_radians();
-    JetExit {
-        position_m: Vector3::new(0.0, 0.0, height_m),
-        velocity_m_s: Vector3::new(a.cos(), 0.0, a.sin()) * (CV * ideal),
-        flow_m3_s: CD * PI * d_m * d_m / 4.0 * ideal,
-        nozzle_diameter_m: d_m,
-        nozzle_pressure_pa: p_pa,
-        omega_rad_s: 0.0,
-    }
-}
-
-fn published_m(d_mm: f64, p_pa: f64) -> f64 {
-    let h = p_pa / (env().water_density_kg_m3 * 9.80665);
-    0.5 * (1.35 * (d_mm * h).sqrt() + 1.70 * d_mm.powf(0.487) * h.powf(0.45))
-}
 
 fn model(x: &[f64; 3]) -> JetModel {
     JetModel {

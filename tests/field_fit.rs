@@ -3,11 +3,11 @@
 //! readings fitted back, a coast-down against its closed-form solution.
 
 use proptest::prelude::*;
-use spinwright::physics::balance::{rpm, solve};
-use spinwright::physics::field::{
+use spinwright::inverse::field::{
     check, Alone, CauseEvidence, Detail, Direction, FieldReading, FieldTolerances, FlowReading,
     RotationReading,
 };
+use spinwright::physics::balance::{rpm, solve};
 use spinwright::report::field::{check_text, finding_text};
 use spinwright::units::UnitSystem;
 

@@ -4,19 +4,19 @@
 
 use spinwright::catalogue::{self, BRAKE_VISCOUS, DEFLECTION, INLET_PRESSURE};
 use spinwright::inverse::compare::{compare, InputValue};
+use spinwright::inverse::field::{
+    check, Alone, CauseEvidence, CauseKind, Detail, FieldReading, FieldTolerances, FindingKind,
+    FlowReading, RotationReading, ThrowReading, REGULATOR_LIMIT_PA,
+};
 use spinwright::inverse::sweep::{sweep, RowStatus, SweepAxis};
 use spinwright::inverse::target::{target, Goal};
 use spinwright::physics::balance::{rpm, solve, SpinStatus};
 use spinwright::physics::design::{Bearing, Design, Line, Supply};
-use spinwright::physics::field::{
-    check, Alone, CauseEvidence, CauseKind, Detail, FieldReading, FieldTolerances, FindingKind,
-    FlowReading, RotationReading, ThrowReading, REGULATOR_LIMIT_PA,
-};
 use spinwright::physics::fixtures::three_arm_rotor;
 use spinwright::report::field::finding_text;
 use spinwright::units::UnitSystem;
 
-fn words(f: &spinwright::physics::field::Finding) -> String {
+fn words(f: &spinwright::inverse::field::Finding) -> String {
     finding_text(f, UnitSystem::Metric)
 }
 

@@ -10,13 +10,13 @@ use super::{
     load_design, positive_number, positive_quantity, positive_quantity_or_bare, positive_rpm,
     quantity, CliError, Format, Outcome, Output,
 };
-use crate::physics::balance::solve;
-use crate::physics::coverage::wetted_radius_m;
-use crate::physics::design::Design;
-use crate::physics::field::{
+use crate::inverse::field::{
     check, Alone, Cause, CauseEvidence, FieldCheck, FieldReading, FieldTolerances, FlowReading,
     NozzleAlone, RotationReading, ThrowReading,
 };
+use crate::physics::balance::solve;
+use crate::physics::coverage::wetted_radius_m;
+use crate::physics::design::Design;
 use crate::report::field as words;
 use crate::units::{csv_key, to_display, Dimension as D, UnitSystem};
 

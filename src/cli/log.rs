@@ -8,8 +8,8 @@ use std::io::Write;
 use std::path::Path;
 
 use super::CliError;
+use crate::inverse::field::FieldCheck;
 use crate::inverse::readings::iso_like;
-use crate::physics::field::FieldCheck;
 use crate::report::field::finding_text;
 use crate::units::{format_number, to_display, Dimension as D, UnitSystem};
 

@@ -30,10 +30,10 @@
 //! values (said in the result).
 
 use super::lsq::{jacobian, levenberg_marquardt, t95, LsqError, LsqProblem};
+use crate::inverse::field::effective_diameter;
 use crate::numeric::root::{brent, Tolerance};
 use crate::physics::balance::{rad_s, rpm, SpinModel};
 use crate::physics::design::{Bearing, Design, Supply};
-use crate::physics::field::effective_diameter;
 
 /// One reading at the unit.
 #[derive(Debug, Clone, PartialEq)]

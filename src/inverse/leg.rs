@@ -21,6 +21,7 @@
 //! allows, and the layout report says how the water compares.
 
 use super::audit::measured_throw_m;
+use crate::numeric::minimise::golden_section;
 use crate::physics::breakup::PLAUSIBLE_BREAKUP;
 use crate::physics::design::SpraySpec;
 use crate::physics::jet::JetExit;
@@ -99,28 +100,9 @@ fn scan_and_narrow(
             best = (c, m);
         }
     }
-    let g = (5f64.sqrt() - 1.0) / 2.0;
-    let (mut a, mut b) = ((best.0 - step).max(lo), (best.0 + step).min(hi));
-    let mut c1 = b - g * (b - a);
-    let mut c2 = a + g * (b - a);
-    let mut f1 = f(c1)?;
-    let mut f2 = f(c2)?;
-    while b - a > tol {
-        if f1 <= f2 {
-            b = c2;
-            c2 = c1;
-            f2 = f1;
-            c1 = b - g * (b - a);
-            f1 = f(c1)?;
-        } else {
-            a = c1;
-            c1 = c2;
-            f1 = f2;
-            c2 = a + g * (b - a);
-            f2 = f(c2)?;
-        }
-    }
-    for (c, v) in [(c1, f1), (c2, f2)] {
+    let (a, b) = ((best.0 - step).max(lo), (best.0 + step).min(hi));
+    let narrowed = golden_section(&mut *f, a, b, tol, usize::MAX)?;
+    for (c, v) in narrowed.inner {
         if v < best.1 {
             best = (c, v);
         }

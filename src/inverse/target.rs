@@ -25,8 +25,10 @@
 //! c₁ = T_stall/ω₁, quadratic c₂ = T_stall/ω₁², ω₁ = 1 rpm).
 
 use rayon::prelude::*;
+use std::convert::Infallible;
 
 use crate::catalogue::{Input, Search, VaryError};
+use crate::numeric::minimise::golden_section;
 use crate::numeric::root::{brent, RootError, Tolerance};
 use crate::physics::balance::{rad_s, rpm, solve, solve_speed, SpinReport, SpinStatus};
 use crate::physics::design::Design;
@@ -422,28 +424,11 @@ fn closest_point(
     let v = *grid.get(k)?;
     let lo = *grid.get(k.saturating_sub(1))?;
     let hi = *grid.get(k + 1).unwrap_or(&v);
-    let miss = |x: f64| eval(x).map_or(f64::INFINITY, |m| (m - want).abs());
-    let phi = 0.5 * (5f64.sqrt() - 1.0);
-    let (mut a, mut b) = (lo, hi);
-    let mut c = b - phi * (b - a);
-    let mut d = a + phi * (b - a);
-    let (mut fc, mut fd) = (miss(c), miss(d));
-    for _ in 0..40 {
-        if fc < fd {
-            b = d;
-            d = c;
-            fd = fc;
-            c = b - phi * (b - a);
-            fc = miss(c);
-        } else {
-            a = c;
-            c = d;
-            fc = fd;
-            d = a + phi * (b - a);
-            fd = miss(d);
-        }
-    }
-    let x = 0.5 * (a + b);
+    let miss = |x: f64| -> Result<f64, Infallible> {
+        Ok(eval(x).map_or(f64::INFINITY, |m| (m - want).abs()))
+    };
+    let Ok(narrowed) = golden_section(miss, lo, hi, 0.0, 40);
+    let x = narrowed.middle();
     match eval(x) {
         Some(mx) if (mx - want).abs() < (m - want).abs() => Some((x, mx)),
         _ => Some((v, m)),

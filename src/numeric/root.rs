@@ -3,7 +3,8 @@
 //! `roots` 0.0.8 uses one epsilon for both |f| and |Δx|; the physics needs a
 //! step tolerance on x and a residual tolerance on f scaled to the problem, so
 //! [`Tolerance`] carries both. Failures carry the bracket that was tried, so a
-//! report can say where the search looked.
+//! report can say where the search looked. [`grow_bracket`] finds a bracket
+//! to give it, walking outward from a point until the function changes sign.
 
 use roots::{find_root_brent, Convergency, SearchError};
 
@@ -61,9 +62,80 @@ pub fn brent(
     })
 }
 
+/// Walks from `x0`, where `f` has the value `f0` (not zero), through
+/// `points` in order until `f` is no longer of `f0`'s sign (zero, the other
+/// sign, or NaN). Returns (the last point still of `f0`'s sign, `x0` if none,
+/// the first point past), a bracket for [`brent`] in the order walked, or
+/// `None` when the points run out first.
+///
+/// `points` says how the walk grows: [`doubling`] steps, or any sequence
+/// (a geometric one with a cap for a scale factor).
+pub fn grow_bracket(
+    mut f: impl FnMut(f64) -> f64,
+    x0: f64,
+    f0: f64,
+    points: impl IntoIterator<Item = f64>,
+) -> Option<(f64, f64)> {
+    let mut inside = x0;
+    for x in points {
+        let fx = f(x);
+        let same_sign = if f0 > 0.0 { fx > 0.0 } else { fx < 0.0 };
+        if !same_sign {
+            return Some((inside, x));
+        }
+        inside = x;
+    }
+    None
+}
+
+/// The points x0 + dir·step0·2ᵏ, k = 0 … `count` − 1: steps that double
+/// away from `x0` in the direction of the sign of `dir`.
+pub fn doubling(x0: f64, dir: f64, step0: f64, count: usize) -> impl Iterator<Item = f64> {
+    std::iter::successors(Some(step0), |s| Some(2.0 * s))
+        .take(count)
+        .map(move |s| x0 + dir * s)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn doubling_steps_bracket_a_far_root() {
+        // x − 100 from x0 = 0: steps 1, 2, 4, …, 64 stay below, 128 is past.
+        let f = |x: f64| x - 100.0;
+        let pts: Vec<f64> = doubling(0.0, 1.0, 1.0, 4).collect();
+        assert_eq!(pts, [1.0, 2.0, 4.0, 8.0]);
+        let (inside, past) = grow_bracket(f, 0.0, f(0.0), doubling(0.0, 1.0, 1.0, 20)).unwrap();
+        assert_eq!((inside, past), (64.0, 128.0));
+        let tol = Tolerance {
+            x: 1e-13,
+            f: 1e-13,
+            max_iter: 100,
+        };
+        assert!((brent(f, inside, past, tol).unwrap() - 100.0).abs() < 1e-12);
+        // Downward, and running out of points.
+        let g = |x: f64| x + 3.0;
+        assert_eq!(
+            grow_bracket(g, 0.0, g(0.0), doubling(0.0, -1.0, 1.0, 5)),
+            Some((-2.0, -4.0))
+        );
+        assert_eq!(
+            grow_bracket(g, 0.0, g(0.0), doubling(0.0, -1.0, 1.0, 2)),
+            None
+        );
+    }
+
+    #[test]
+    fn a_geometric_walk_with_a_cap() {
+        // √x − 2 is negative up to x = 4: ×1.5 from 1 capped at 3 never gets there.
+        let f = |x: f64| x.sqrt() - 2.0;
+        let capped =
+            std::iter::successors(Some(1.5), |h: &f64| (*h < 3.0).then(|| (h * 1.5).min(3.0)));
+        assert_eq!(grow_bracket(f, 1.0, f(1.0), capped), None);
+        let open = std::iter::successors(Some(1.5), |h: &f64| Some(h * 1.5));
+        assert_eq!(grow_bracket(f, 1.0, f(1.0), open), Some((3.375, 5.0625)));
+    }
 
     #[test]
     fn finds_a_cube_root_to_tight_tolerance() {

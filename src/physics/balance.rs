@@ -22,6 +22,15 @@ use super::torque::{
 };
 use crate::numeric::root::{brent, RootError, Tolerance};
 
+mod spin_up;
+mod table;
+
+pub use spin_up::{spin_up_times, SpinUp, SPIN_UP_STEPS_PER_TIME_SCALE};
+pub use table::{table_speeds, table_top_speed, torque_table, torque_table_to, TableRow};
+
+/// Above this inlet pressure a regulator is called for, Pa (80 psi; common
+/// practice: plumbing codes).
+pub const REGULATOR_LIMIT_PA: f64 = 551_580.0;
 /// Tip speed that bounds the equilibrium search, m/s.
 pub const CAP_TIP_SPEED_M_S: f64 = 150.0;
 /// Points in the geometric scan for sign changes of net torque (a 25 % step).
@@ -32,9 +41,6 @@ const SCAN_FLOOR: f64 = 1e-4;
 /// Points and floor of the runaway scan (up to ten times the tip-speed cap, a 29 % step).
 const RUNAWAY_POINTS: usize = 28;
 const RUNAWAY_FLOOR: f64 = 1e-3;
-
-/// RK4 steps per time scale of the spin-up (see [`spin_up_times`]).
-pub const SPIN_UP_STEPS_PER_TIME_SCALE: f64 = 4.0;
 
 /// rad/s → rpm.
 pub fn rpm(omega_rad_s: f64) -> f64 {
@@ -191,15 +197,6 @@ pub struct Equilibrium {
     pub omega_rad_s: f64,
     /// True when net torque falls through zero here.
     pub stable: bool,
-}
-
-/// Time to come up to speed from rest.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct SpinUp {
-    /// Time to 90 % of the operating speed, s.
-    pub t90_s: f64,
-    /// Time to 99 % of the operating speed, s.
-    pub t99_s: f64,
 }
 
 /// Power balance at the operating point, W.
@@ -657,266 +654,13 @@ fn note_state(state: &SupplyState, model: &SpinModel, warnings: &mut Vec<Warning
             hub_pressure_pa: state.hub_pressure_pa,
         });
     }
-    if state.inlet_pressure_pa > 551_580.0 {
+    if state.inlet_pressure_pa > REGULATOR_LIMIT_PA {
         warnings.push(Warning::HighSupplyPressure {
             pressure_pa: state.inlet_pressure_pa,
         });
     }
 }
 
-/// RK4 on I dω/dt = net(ω) from rest; times to 90 % and 99 % of `omega_op`.
-///
-/// The step is a fraction (1/[`SPIN_UP_STEPS_PER_TIME_SCALE`]) of the smaller of two time scales: the settling
-/// constant I/|d net/dω| at the operating point and the rise time I·ω_op/net(0).
-/// Crossing times are read off the cubic Hermite interpolant of each step.
-pub fn spin_up_times(
-    model: &SpinModel,
-    inertia: f64,
-    omega_op: f64,
-    net_at_rest: f64,
-) -> Option<SpinUp> {
-    spin_up_with_step_scale(model, inertia, omega_op, net_at_rest, 1.0)
-}
-
-/// [`spin_up_times`] with the step divided by `refine`.
-fn spin_up_with_step_scale(
-    model: &SpinModel,
-    inertia: f64,
-    omega_op: f64,
-    net_at_rest: f64,
-    refine: f64,
-) -> Option<SpinUp> {
-    if inertia <= 0.0 || omega_op <= 0.0 {
-        return None;
-    }
-    let h = 1e-4 * omega_op;
-    let slope = (model.net(omega_op + h) - model.net((omega_op - h).max(0.0))) / (2.0 * h);
-    let settle = if slope < 0.0 {
-        inertia / -slope
-    } else {
-        f64::INFINITY
-    };
-    let rise = if net_at_rest > 0.0 {
-        inertia * omega_op / net_at_rest
-    } else {
-        settle
-    };
-    let dt = settle.min(rise) / (SPIN_UP_STEPS_PER_TIME_SCALE * refine);
-    if !dt.is_finite() || dt <= 0.0 {
-        return None;
-    }
-    let accel = |w: f64| model.net(w) / inertia;
-    let targets = [0.9 * omega_op, 0.99 * omega_op];
-    let mut times = [None, None];
-    let (mut t, mut w, mut a) = (0.0, 0.0, accel(0.0));
-    for _ in 0..100_000 {
-        let k1 = a;
-        let k2 = accel(w + 0.5 * dt * k1);
-        let k3 = accel(w + 0.5 * dt * k2);
-        let k4 = accel(w + dt * k3);
-        let w1 = w + dt / 6.0 * (k1 + 2.0 * k2 + 2.0 * k3 + k4);
-        let a1 = accel(w1);
-        for (slot, &target) in times.iter_mut().zip(&targets) {
-            if slot.is_none() && w1 >= target {
-                *slot = Some(t + dt * hermite_crossing(w, w1, a * dt, a1 * dt, target));
-            }
-        }
-        if times.iter().all(Option::is_some) {
-            break;
-        }
-        (t, w, a) = (t + dt, w1, a1);
-    }
-    match times {
-        [Some(t90_s), Some(t99_s)] => Some(SpinUp { t90_s, t99_s }),
-        _ => None,
-    }
-}
-
-/// Fraction s ∈ [0, 1] of a step at which the cubic Hermite interpolant through
-/// (w0, m0) and (w1, m1) (slopes per unit s) reaches `target`.
-fn hermite_crossing(w0: f64, w1: f64, m0: f64, m1: f64, target: f64) -> f64 {
-    let value = |s: f64| {
-        let s2 = s * s;
-        let s3 = s2 * s;
-        (2.0 * s3 - 3.0 * s2 + 1.0) * w0
-            + (s3 - 2.0 * s2 + s) * m0
-            + (-2.0 * s3 + 3.0 * s2) * w1
-            + (s3 - s2) * m1
-    };
-    let (mut lo, mut hi) = (0.0, 1.0);
-    for _ in 0..60 {
-        let mid = 0.5 * (lo + hi);
-        if value(mid) < target {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
-    }
-    0.5 * (lo + hi)
-}
-
-/// One row of the torque–speed table.
-pub type TableRow = TorquePoint;
-
-/// Torque–speed table from rest to past runaway, `points` rows (at least 2).
-///
-/// The top speed is 1.15 × the frictionless runaway when there is one, else
-/// 1.5 × the highest equilibrium, else ω_cap. The speeds are
-/// [`table_speeds`]: dense from rest to the operating point and around it,
-/// coarser out to the top.
-pub fn torque_table(design: &Design, report: &SpinReport, points: usize) -> Vec<TableRow> {
-    torque_table_to(design, report, table_top_speed(report), points)
-}
-
-/// As [`torque_table`], from rest to `top_rad_s` (a chart's own top speed).
-pub fn torque_table_to(
-    design: &Design,
-    report: &SpinReport,
-    top_rad_s: f64,
-    points: usize,
-) -> Vec<TableRow> {
-    let model = SpinModel::new(design);
-    let top = top_rad_s;
-    let op = report.operating.as_ref().map(OperatingPoint::omega_rad_s);
-    table_speeds(top, op, points)
-        .into_iter()
-        .map(|w| model.point(w))
-        .collect()
-}
-
-/// Speeds of the torque–speed table, rad/s, rising from 0 to `top`, exactly
-/// `points` of them (at least 2).
-///
-/// Without an operating point ω_op inside (0, top/1.5), or with fewer than
-/// 8 points, they are evenly spaced. Otherwise (model.md M6, "the table"):
-/// 45 % of the rows (at least 3) run evenly from rest to ω_op, which is a row
-/// of its own; 20 % (at least 2) run evenly on to 1.5 ω_op; the rest step out
-/// to `top` in a geometric progression, so the steps grow away from the
-/// operating point. At least half the rows lie between rest and 1.5 ω_op.
-pub fn table_speeds(top: f64, operating_rad_s: Option<f64>, points: usize) -> Vec<f64> {
-    let n = points.max(2);
-    let even = |n: usize| -> Vec<f64> { (0..n).map(|k| top * k as f64 / (n - 1) as f64).collect() };
-    let op = match operating_rad_s {
-        Some(w) if w.is_finite() && w > 0.0 && 1.5 * w < top && n >= 8 => w,
-        _ => return even(n),
-    };
-    let n_rise = ((0.45 * n as f64).round() as usize).max(3);
-    let n_near = ((0.20 * n as f64).round() as usize).max(2);
-    let n_far = n.saturating_sub(n_rise + n_near).max(1);
-    let n_rise = n - n_near - n_far;
-    let mut speeds = Vec::with_capacity(n);
-    // Rest to ω_op inclusive: n_rise rows.
-    speeds.extend((0..n_rise).map(|k| op * k as f64 / (n_rise - 1) as f64));
-    // Past ω_op to 1.5 ω_op inclusive: n_near rows.
-    speeds.extend((1..=n_near).map(|k| op * (1.0 + 0.5 * k as f64 / n_near as f64)));
-    // Past 1.5 ω_op to the top inclusive: n_far rows, a geometric progression.
-    let from = 1.5 * op;
-    let ratio = (top / from).powf(1.0 / n_far as f64);
-    speeds.extend((1..=n_far).map(|k| {
-        if k == n_far {
-            top
-        } else {
-            from * ratio.powi(k as i32)
-        }
-    }));
-    speeds
-}
-
-/// The top speed of the torque–speed table, rad/s.
-pub fn table_top_speed(report: &SpinReport) -> f64 {
-    if let Some(r) = report.runaway_rad_s {
-        1.15 * r
-    } else if let Some(e) = report.equilibria.last() {
-        1.5 * e.omega_rad_s
-    } else {
-        report.omega_cap_rad_s
-    }
-}
-
 #[cfg(test)]
-mod tests {
-    use super::*;
-    use crate::physics::fixtures::three_arm_rotor;
-
-    #[test]
-    fn table_rows_gather_where_the_action_is() {
-        // Operating point 3 rad/s, top 100 rad/s: at least half the rows lie
-        // between rest and 1.5 ω_op, ω_op is a row, the count is exact, the
-        // speeds rise from 0 to the top (the rule in model.md M6).
-        for n in [8, 11, 41, 200] {
-            let s = table_speeds(100.0, Some(3.0), n);
-            assert_eq!(s.len(), n);
-            assert_eq!(s.first().copied(), Some(0.0));
-            assert_eq!(s.last().copied(), Some(100.0));
-            assert!(s.windows(2).all(|w| w[1] > w[0]), "{s:?}");
-            let near = s.iter().filter(|&&w| w <= 1.5 * 3.0 + 1e-12).count();
-            assert!(2 * near >= n, "{near} of {n} below 1.5 ω_op");
-            assert!(s.iter().any(|&w| (w - 3.0).abs() < 1e-12));
-            // Steps past 1.5 ω_op grow.
-            let far: Vec<f64> = s.iter().copied().filter(|&w| w >= 4.5 - 1e-12).collect();
-            assert!(far.windows(3).all(|w| w[2] - w[1] >= w[1] - w[0] - 1e-9));
-        }
-        // No operating point, or too few rows: even steps, as before.
-        assert_eq!(table_speeds(10.0, None, 3), vec![0.0, 5.0, 10.0]);
-        assert_eq!(table_speeds(10.0, Some(2.0), 5).len(), 5);
-        assert_eq!(table_speeds(10.0, Some(2.0), 2), vec![0.0, 10.0]);
-    }
-
-    #[test]
-    fn three_arm_rotor_runs_and_balances() {
-        let d = three_arm_rotor();
-        let r = solve(&d);
-        assert_eq!(r.status, SpinStatus::Running);
-        let op = r.operating.as_ref().expect("running");
-        let p = &op.point;
-        assert!(p.net_n_m().abs() <= 1e-9 * p.drive_n_m);
-    }
-}
-
-#[cfg(test)]
-mod spin_up_tests {
-    use super::*;
-    use crate::physics::design::Supply;
-    use crate::physics::fixtures::{symmetric_rotor, three_arm_rotor};
-
-    #[test]
-    fn linear_net_torque_spins_up_exponentially() {
-        // Fixed flow, linear brake: net(ω) = T_s(1 − ω/ω_op) exactly, so
-        // ω(t) = ω_op(1 − e^(−t/τ)) with τ = I/(ρQR² + k): t90 = τ ln 10, t99 = τ ln 100.
-        let mut d = symmetric_rotor(2, 0.2, 3e-3, 0.2, 0.1, Supply::Flow { total_m3_s: 4e-4 });
-        for arm in &mut d.rotor.arms {
-            arm.tube.length_m = Some(0.0);
-        }
-        d.friction.brake.viscous = 0.01;
-        let r = solve(&d);
-        let rho = SpinModel::new(&d).fluids.water.density_kg_m3;
-        let tau = r.inertia_kg_m2 / (rho * 4e-4 * 0.04 + 0.01);
-        let s = r.spin_up.expect("spins up");
-        assert!(
-            (s.t90_s / (tau * 10f64.ln()) - 1.0).abs() < 1e-4,
-            "t90 {} vs {}",
-            s.t90_s,
-            tau * 10f64.ln()
-        );
-        assert!(
-            (s.t99_s / (tau * 100f64.ln()) - 1.0).abs() < 1e-4,
-            "t99 {}",
-            s.t99_s
-        );
-    }
-
-    #[test]
-    fn spin_up_step_is_converged() {
-        let d = three_arm_rotor();
-        let model = SpinModel::new(&d);
-        let r = solve(&d);
-        let op = r.operating.as_ref().expect("running").omega_rad_s();
-        let fine_net = model.point(0.0).net_n_m();
-        let coarse = r.spin_up.expect("spins up");
-        // Halving the step four times changes the times by well under 0.1 %.
-        let fine =
-            spin_up_with_step_scale(&model, r.inertia_kg_m2, op, fine_net, 16.0).expect("spins up");
-        assert!((coarse.t99_s / fine.t99_s - 1.0).abs() < 1e-3);
-        assert!((coarse.t90_s / fine.t90_s - 1.0).abs() < 1e-3);
-    }
-}
+#[path = "balance_tests.rs"]
+mod tests;

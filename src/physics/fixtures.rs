@@ -127,3 +127,68 @@ pub fn three_arm_rotor() -> Design {
     };
     d
 }
+
+/// The single-nozzle throw check against published relations (the test
+/// `tests/throw_published.rs` and the fit `examples/fit_throw_constants.rs`
+/// share it, so both judge the same nozzles against the same target).
+pub mod published_throw {
+    use std::f64::consts::PI;
+
+    use nalgebra::Vector3;
+
+    use crate::physics::design::Wind;
+    use crate::physics::fluid::{AirProps, WaterProps};
+    use crate::physics::jet::JetExit;
+    use crate::physics::trajectory::FlightEnv;
+
+    /// Velocity coefficient of a smooth tapered nozzle (common practice, as
+    /// in the shipped scenarios).
+    pub const CV: f64 = 0.98;
+    /// Discharge coefficient of a smooth tapered nozzle (common practice).
+    pub const CD: f64 = 0.96;
+    /// Nozzle diameters of the check, mm.
+    pub const SIZES_MM: [f64; 7] = [2.0, 3.0, 4.0, 5.0, 6.0, 7.0, 8.0];
+    /// Pressures across the nozzle, Pa.
+    pub const PRESSURES_PA: [f64; 4] = [150e3, 250e3, 350e3, 450e3];
+    /// (angle above horizontal, °; height above ground, m).
+    pub const GEOMETRIES: [(f64, f64); 2] = [(25.0, 0.5), (28.0, 1.0)];
+
+    /// Still air and water, both at 20 °C, at sea level.
+    pub fn env() -> FlightEnv {
+        FlightEnv::new(
+            &AirProps::at(20.0, 0.0),
+            &WaterProps::at(20.0),
+            &Wind::default(),
+        )
+    }
+
+    /// A radial nozzle of diameter `d_m` (m) at `p_pa` (Pa) across it,
+    /// `angle_deg` (°) above horizontal, `height_m` (m) above ground, on a
+    /// rotor held still: exit speed C_v·√(2p/ρ), flow C_d·(πd²/4)·√(2p/ρ).
+    pub fn nozzle(d_m: f64, p_pa: f64, angle_deg: f64, height_m: f64) -> JetExit {
+        let ideal = (2.0 * p_pa / env().water_density_kg_m3).sqrt();
+        let a = angle_deg.to_radians();
+        JetExit {
+            position_m: Vector3::new(0.0, 0.0, height_m),
+            velocity_m_s: Vector3::new(a.cos(), 0.0, a.sin()) * (CV * ideal),
+            flow_m3_s: CD * PI * d_m * d_m / 4.0 * ideal,
+            nozzle_diameter_m: d_m,
+            nozzle_pressure_pa: p_pa,
+            omega_rad_s: 0.0,
+        }
+    }
+
+    /// Wetted radius by the mean of two published relations, m, for a nozzle
+    /// of `d_mm` (mm) at `p_pa` (Pa), h the pressure head in m:
+    ///
+    /// - R = 1.35·√(d·h) — Keller & Bliesner (1990), *Sprinkle and Trickle
+    ///   Irrigation* (from memory);
+    /// - R = 1.70·d^0.487·h^0.45 — a 1989 sprinkler-irrigation design
+    ///   manual (from memory).
+    pub fn published_m(d_mm: f64, p_pa: f64) -> f64 {
+        let h = p_pa / (env().water_density_kg_m3 * 9.80665);
+        let keller_bliesner = 1.35 * (d_mm * h).sqrt();
+        let manual = 1.70 * d_mm.powf(0.487) * h.powf(0.45);
+        0.5 * (keller_bliesner + manual)
+    }
+}

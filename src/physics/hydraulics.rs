@@ -14,15 +14,17 @@
 //! all functions of ω. Pressures are gauge, Pa; flows m³/s.
 //!
 //! Both the per-nozzle flow and the hub pressure are found by a safeguarded
-//! Newton iteration inside a bracket that is known to hold the root, so each
-//! solve is robust (bisection when Newton leaves the bracket) and cheap (two to
-//! four steps from a good start). The functions are monotone, so the root is unique.
+//! Newton iteration inside a bracket that is known to hold the root
+//! ([`crate::numeric::newton`]), so each solve is robust (bisection when
+//! Newton leaves the bracket) and cheap (two to four steps from a good
+//! start). The functions are monotone, so the root is unique.
 
 use std::f64::consts::PI;
 
 use super::design::{Arm, Design, Line, Supply, GRAVITY_M_S2};
 use super::fluid::{AirProps, WaterProps};
 use super::pipe::Duct;
+use crate::numeric::newton::bracketed_newton;
 
 /// Water and air properties for one design.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -141,47 +143,6 @@ fn nozzle_coeffs(arm: &Arm, omega: f64, water: &WaterProps) -> NozzleCoeffs {
             minor_k: arm.tube.minor_k,
         },
     }
-}
-
-/// Safeguarded Newton on an increasing function `f` with `f(lo) < 0 < f(hi)`.
-///
-/// `f` returns (value, slope). Stops when |f| is below `f_tol` or the step is
-/// below `x_tol`, and returns the last point with its value and slope. Falls
-/// back to bisection when a Newton step would leave the bracket.
-fn bracketed_newton(
-    mut f: impl FnMut(f64) -> (f64, f64),
-    mut lo: f64,
-    mut hi: f64,
-    start: f64,
-    x_tol: f64,
-    f_tol: f64,
-) -> (f64, f64, f64) {
-    // max/min, not clamp: clamp panics when a bound is NaN.
-    let mut x = start.max(lo).min(hi);
-    let (mut fx, mut dfx) = f(x);
-    for _ in 0..100 {
-        if fx.abs() <= f_tol {
-            break;
-        }
-        if fx < 0.0 {
-            lo = x;
-        } else {
-            hi = x;
-        }
-        let newton = if dfx > 0.0 { x - fx / dfx } else { f64::NAN };
-        let next = if newton.is_finite() && newton > lo && newton < hi {
-            newton
-        } else {
-            0.5 * (lo + hi)
-        };
-        let small = (next - x).abs() <= x_tol || hi - lo <= x_tol;
-        x = next;
-        (fx, dfx) = f(x);
-        if small {
-            break;
-        }
-    }
-    (x, fx, dfx)
 }
 
 /// Highest pressure across a nozzle the model is meant for, Pa (2 MPa, about

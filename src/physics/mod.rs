@@ -15,14 +15,15 @@
 //! - [`layout`]: head layouts, overlap, CU / DU and the soil-intake check (M9).
 //! - [`checks`]: practice checks of a solved design (start margin, speed, spin-up, clearance).
 //! - [`coverage`]: the spin state handed to throw, pattern and layout (M6 → M7–M9).
-//! - [`field`]: field check, readings at a running sprinkler against its design (M10).
+//!
+//! Uses of the model built on it (the field check, targets, sweeps, fits) are
+//! in [`crate::inverse`]; the numerical methods in [`crate::numeric`].
 
 pub mod balance;
 pub mod breakup;
 pub mod checks;
 pub mod coverage;
 pub mod design;
-pub mod field;
 pub mod fixtures;
 pub mod fluid;
 pub mod hydraulics;
@@ -36,5 +37,5 @@ pub mod trajectory;
 
 /// A wetted-radius function supplied by the throw model: the wetted radius of
 /// a design, m (None when there is none, e.g. the rotor stalls). Field checks
-/// and target searches take one so they need not run the throw themselves.
+/// and target searches (in [`crate::inverse`]) take one so they need not run the throw themselves.
 pub type ThrowFn = dyn Fn(&design::Design) -> Option<f64> + Sync;

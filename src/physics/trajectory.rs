@@ -13,31 +13,8 @@
 //!
 //! # Drag law for water drops
 //!
-//! [`DragLaw::WaterDrop`] is the rigid-sphere law of Clift & Gauvin (1971),
-//!
-//! ```text
-//! C_D,sphere = 24/Re (1 + 0.15 Re^0.687) + 0.42 / (1 + 42 500 Re^−1.16),
-//! ```
-//!
-//! times a size-dependent deformation factor for drops that flatten as they fall,
-//!
-//! ```text
-//! F(d) = 0.94 + (d / 5.74 mm)^2.1 .
-//! ```
-//!
-//! The factor was fitted for this project by least squares on the relative
-//! terminal-speed error against the still-air terminal speeds of Gunn & Kinzer
-//! (1949) from 0.5 to 5.8 mm, in air at 20 °C and 1013 hPa (the fit is repeated
-//! by `tests/reference/fit_drop_drag.py`). It reproduces every tabulated speed
-//! within 2.7 %. Rigid-sphere laws alone put a 4 mm drop 17–37 % too fast
-//! (Clift–Gauvin 10.6 m/s, Schiller–Naumann 12.1 m/s against a measured 8.83 m/s),
-//! which would overstate the throw of the large drops that set the wetted radius.
-//!
-//! Limits: F depends on size only, as fitted at terminal speed. A large drop
-//! moving fast just after the nozzle is probably flatter than at terminal speed,
-//! and drops above about 6 mm break up; neither is modelled. Above 5.8 mm the
-//! factor is held at its 5.8 mm value (1.96). Below 0.5 mm it stays near 0.94
-//! (those drops carry little water and land close in).
+//! In [`drag`]: Clift & Gauvin's (1971) rigid-sphere law times a deformation
+//! factor fitted to Gunn & Kinzer's (1949) terminal speeds.
 //!
 //! # Integration
 //!
@@ -58,7 +35,12 @@ use crate::numeric::ode::{
 };
 use crate::numeric::root::{brent, Tolerance};
 use nalgebra::Vector3;
-use std::fmt;
+
+mod drag;
+
+pub use drag::{
+    clift_gauvin, deformation_factor, schiller_naumann, DragLaw, DEFORMATION_FIT_MAX_M,
+};
 
 /// Errors from the throw, spray, pattern and layout calculations.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -137,97 +119,6 @@ fn require_finite_vector(field: &str, v: &Vector3<f64>) -> Result<(), ThrowError
             field: field.to_string(),
             detail: "has a component that is not a finite number".to_string(),
         })
-    }
-}
-
-/// The drag coefficient law of a drop.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
-pub enum DragLaw {
-    /// Clift–Gauvin sphere drag times the deformation factor fitted to
-    /// Gunn & Kinzer (1949) (see the module docs). The default.
-    #[default]
-    WaterDrop,
-    /// Clift–Gauvin (1971) rigid sphere, no deformation: too fast for large drops.
-    RigidSphere,
-    /// Schiller–Naumann (1933) rigid sphere, 24/Re (1 + 0.15 Re^0.687), used
-    /// beyond its range of validity (Re < 1000) to show how far off it is.
-    SchillerNaumann,
-    /// No drag at all (vacuum flight): for checking the integrator.
-    None,
-}
-
-/// Schiller–Naumann (1933) sphere drag coefficient, C_D = 24/Re (1 + 0.15 Re^0.687).
-///
-/// Meant for Re < 1000; applied here at any Re. Returns +∞ for Re ≤ 0.
-pub fn schiller_naumann(re: f64) -> f64 {
-    if re <= 0.0 {
-        return f64::INFINITY;
-    }
-    24.0 / re * (1.0 + 0.15 * re.powf(0.687))
-}
-
-/// Clift & Gauvin (1971) sphere drag coefficient, valid to Re ≈ 3·10⁵.
-///
-/// C_D = 24/Re (1 + 0.15 Re^0.687) + 0.42 / (1 + 42 500 Re^−1.16).
-/// Returns +∞ for Re ≤ 0.
-pub fn clift_gauvin(re: f64) -> f64 {
-    if re <= 0.0 {
-        return f64::INFINITY;
-    }
-    // One logarithm for both powers (this is the inner loop of every flight).
-    let ln_re = re.ln();
-    24.0 / re * (1.0 + 0.15 * (0.687 * ln_re).exp())
-        + 0.42 / (1.0 + 42_500.0 * (-1.16 * ln_re).exp())
-}
-
-/// Largest drop diameter of the deformation fit, m (the end of Gunn & Kinzer's table).
-pub const DEFORMATION_FIT_MAX_M: f64 = 5.8e-3;
-
-/// Deformation factor F(d) = 0.94 + (d / 5.74 mm)^2.1 on sphere drag for a
-/// water drop of diameter `diameter_m` (fitted to Gunn & Kinzer 1949, module
-/// docs), held at its 5.8 mm value for larger drops rather than extrapolated.
-pub fn deformation_factor(diameter_m: f64) -> f64 {
-    0.94 + (diameter_m.clamp(0.0, DEFORMATION_FIT_MAX_M) / 5.74e-3).powf(2.1)
-}
-
-impl DragLaw {
-    /// Drag coefficient at Reynolds number `re` for a drop of diameter `diameter_m`.
-    pub fn drag_coefficient(&self, re: f64, diameter_m: f64) -> f64 {
-        match self {
-            DragLaw::WaterDrop => clift_gauvin(re) * deformation_factor(diameter_m),
-            DragLaw::RigidSphere => clift_gauvin(re),
-            DragLaw::SchillerNaumann => schiller_naumann(re),
-            DragLaw::None => 0.0,
-        }
-    }
-
-    /// Factor on the sphere law that depends on size only (1 for the rigid laws).
-    fn size_factor(&self, diameter_m: f64) -> f64 {
-        match self {
-            DragLaw::WaterDrop => deformation_factor(diameter_m),
-            _ => 1.0,
-        }
-    }
-
-    /// Sphere part of the law at Reynolds number `re`.
-    fn sphere(&self, re: f64) -> f64 {
-        match self {
-            DragLaw::WaterDrop | DragLaw::RigidSphere => clift_gauvin(re),
-            DragLaw::SchillerNaumann => schiller_naumann(re),
-            DragLaw::None => 0.0,
-        }
-    }
-}
-
-impl fmt::Display for DragLaw {
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        let name = match self {
-            DragLaw::WaterDrop => "Clift–Gauvin sphere × drop deformation (Gunn & Kinzer fit)",
-            DragLaw::RigidSphere => "Clift–Gauvin rigid sphere",
-            DragLaw::SchillerNaumann => "Schiller–Naumann rigid sphere",
-            DragLaw::None => "no drag",
-        };
-        f.write_str(name)
     }
 }
 
@@ -753,148 +644,5 @@ pub fn terminal_velocity_m_s(
 }
 
 #[cfg(test)]
-mod tests {
-    use super::*;
-
-    fn env() -> FlightEnv {
-        FlightEnv::new(
-            &AirProps::at_pressure(20.0, 101_300.0),
-            &WaterProps::at(20.0),
-            &Wind::default(),
-        )
-    }
-
-    #[test]
-    fn schiller_naumann_at_re_100() {
-        // fluids.drag.Schiller_Naumann(100) = 1.0917 (references.md, [lib: fluids.drag]).
-        assert!((schiller_naumann(100.0) - 1.0917).abs() < 1e-3);
-    }
-
-    #[test]
-    fn vacuum_flight_from_a_height_matches_closed_form() {
-        // Closed form: t = (V sinα + √(V² sin²α + 2 g h)) / g, range = V cosα · t.
-        let opts = FlightOptions {
-            drag: DragLaw::None,
-            ..FlightOptions::default()
-        };
-        let (v, alpha, h, r0) = (20.0f64, 0.5f64, 0.4, 0.15);
-        let start = Vector3::new(r0, 0.0, h);
-        let vel = Vector3::new(v * alpha.cos(), 0.0, v * alpha.sin());
-        let land = fly(&start, &vel, 1e-3, &env(), &opts).unwrap();
-        let g = GRAVITY_M_S2;
-        let t = (v * alpha.sin() + (v * v * alpha.sin().powi(2) + 2.0 * g * h).sqrt()) / g;
-        assert!((land.time_s - t).abs() < 1e-9 * t);
-        assert!((land.distance_m - (r0 + v * alpha.cos() * t)).abs() < 1e-9 * land.distance_m);
-    }
-
-    #[test]
-    fn dense_output_locates_ground_between_steps() {
-        // With loose tolerances the steps are long; the landing must not move
-        // by more than the integration error when tolerances tighten.
-        let start = Vector3::new(0.2, 0.0, 0.5);
-        let vel = Vector3::new(15.0, 2.0, 8.0);
-        let loose = FlightOptions {
-            rtol: 1e-5,
-            atol: 1e-5,
-            ..FlightOptions::default()
-        };
-        let a = fly(&start, &vel, 2e-3, &env(), &loose).unwrap();
-        let b = fly(&start, &vel, 2e-3, &env(), &FlightOptions::default()).unwrap();
-        assert!(a.steps < b.steps);
-        assert!((a.distance_m - b.distance_m).abs() < 1e-3);
-        assert!(a.point_m.z == 0.0);
-    }
-
-    #[test]
-    fn drop_at_ground_going_down_lands_where_it_is() {
-        let land = fly(
-            &Vector3::new(1.0, 0.0, 0.0),
-            &Vector3::new(3.0, 0.0, -1.0),
-            1e-3,
-            &env(),
-            &FlightOptions::default(),
-        )
-        .unwrap();
-        assert_eq!(land.distance_m, 1.0);
-        assert_eq!(land.time_s, 0.0);
-    }
-
-    #[test]
-    fn drop_from_ground_going_up_flies() {
-        let land = fly(
-            &Vector3::new(0.0, 0.0, 0.0),
-            &Vector3::new(5.0, 0.0, 5.0),
-            3e-3,
-            &env(),
-            &FlightOptions::default(),
-        )
-        .unwrap();
-        assert!(land.time_s > 0.5 && land.distance_m > 2.0);
-    }
-
-    #[test]
-    fn bad_inputs_are_errors_not_panics() {
-        let o = FlightOptions::default();
-        let s = Vector3::new(0.0, 0.0, 1.0);
-        let v = Vector3::new(1.0, 0.0, 0.0);
-        assert!(fly(&s, &v, 0.0, &env(), &o).is_err());
-        assert!(fly(&s, &v, f64::NAN, &env(), &o).is_err());
-        assert!(fly(&Vector3::new(0.0, 0.0, -1.0), &v, 1e-3, &env(), &o).is_err());
-        let msg = fly(&s, &Vector3::new(f64::NAN, 0.0, 0.0), 1e-3, &env(), &o)
-            .unwrap_err()
-            .to_string();
-        assert!(
-            msg.contains("jet velocity") && !msg.contains("NaN"),
-            "{msg}"
-        );
-        let msg = fly(&s, &v, f64::NAN, &env(), &o).unwrap_err().to_string();
-        assert!(!msg.contains("NaN"), "{msg}");
-    }
-
-    #[test]
-    fn wind_carries_drops_downwind() {
-        let calm = env();
-        let windy = FlightEnv {
-            wind_m_s: Vector3::new(0.0, 3.0, 0.0),
-            ..calm
-        };
-        let s = Vector3::new(0.0, 0.0, 0.5);
-        let v = Vector3::new(10.0, 0.0, 5.0);
-        let o = FlightOptions::default();
-        let a = fly(&s, &v, 1e-3, &calm, &o).unwrap();
-        let b = fly(&s, &v, 1e-3, &windy, &o).unwrap();
-        assert!(a.point_m.y.abs() < 1e-9);
-        assert!(b.point_m.y > 0.5);
-    }
-
-    #[test]
-    fn path_starts_at_nozzle_and_ends_on_landing() {
-        let jet = JetExit {
-            position_m: Vector3::new(0.16, 0.0, 0.35),
-            velocity_m_s: Vector3::new(5.0, -12.0, 6.0),
-            flow_m3_s: 1e-4,
-            nozzle_diameter_m: 2.4e-3,
-            nozzle_pressure_pa: 2.8e5,
-            omega_rad_s: 0.0,
-        };
-        let path = flight_path(&jet, 2e-3, 1.0, &env(), &FlightOptions::default(), 25).unwrap();
-        assert_eq!(path.points.len(), 25);
-        assert_eq!(path.points[0].position_m, jet.position_m);
-        assert_eq!(path.points[24].position_m, path.landing.point_m);
-        assert!(path.points.iter().all(|p| p.position_m.z >= 0.0));
-        let apex = path
-            .points
-            .iter()
-            .map(|p| p.position_m.z)
-            .fold(0.0, f64::max);
-        assert!(apex > 0.35 && apex <= path.landing.apex_m + 0.05);
-    }
-
-    #[test]
-    fn terminal_velocity_balances_weight() {
-        let e = env();
-        let v = terminal_velocity_m_s(2e-3, &e, DragLaw::WaterDrop).unwrap();
-        let drop = Drop::new(2e-3, &e, DragLaw::WaterDrop);
-        assert!((drop.drag_rate(v) * v - e.gravity_m_s2).abs() < 1e-9);
-    }
-}
+#[path = "trajectory_tests.rs"]
+mod tests;

@@ -2,7 +2,7 @@
 //! resisting torque's split, in metric or US units. Every number shown is a
 //! size (no signs): directions are words ("slower", "speeds it up").
 
-use crate::physics::field::{
+use crate::inverse::field::{
     Alone, Cause, CauseEvidence, CauseKind, Detail, Direction, FieldCheck, Finding, NozzleAlone,
     ResistSplit, Within,
 };

@@ -56,10 +56,10 @@ use super::theme::Theme;
 use super::views::balance_table;
 use super::worker::{SprayResult, Worker};
 use crate::inverse::compare::Comparison;
+use crate::inverse::field::FieldCheck;
 use crate::physics::balance::{solve, SpinReport, TableRow};
 use crate::physics::checks::{cautions, Caution, Rules};
 use crate::physics::design::{Bearing, Design};
-use crate::physics::field::FieldCheck;
 use crate::scenario::{self, Scenario, ScenarioError};
 use crate::units::UnitSystem;
 

@@ -16,11 +16,11 @@ use std::time::{Duration, Instant};
 
 use crate::inverse::coast::{fit_coast, CoastData, CoastResult};
 use crate::inverse::compare::{compare_with_coverage, Comparison};
+use crate::inverse::field::{check, FieldCheck, FieldReading, FieldTolerances};
 use crate::inverse::fit::{fit, FitResult, SpeedReading};
 use crate::physics::balance::{solve, SpinReport};
 use crate::physics::coverage::{flight_env, head_throw, layout_overlap, wetted_radius_m};
 use crate::physics::design::Design;
-use crate::physics::field::{check, FieldCheck, FieldReading, FieldTolerances};
 use crate::physics::layout::{LayoutResult, OverlapOptions};
 use crate::physics::pattern::{
     nozzle_paths, NozzlePaths, PatternOptions, ThrowComparison, ThrowReport,

@@ -4,7 +4,7 @@
 
 use super::{App, Pending};
 use crate::catalogue;
-use crate::physics::field::{FieldReading, FlowReading, RotationReading, ThrowReading};
+use crate::inverse::field::{FieldReading, FlowReading, RotationReading, ThrowReading};
 use crate::tui::fields::{self, Field};
 use crate::tui::worker::Job;
 use crate::units::{self, Dimension as D, UnitSystem};

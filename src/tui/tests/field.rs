@@ -4,7 +4,7 @@ use super::*;
 
 #[test]
 fn rotation_and_flow_are_read_in_the_forms_taken() {
-    use crate::physics::field::{FlowReading, RotationReading};
+    use crate::inverse::field::{FlowReading, RotationReading};
     use crate::tui::app::{parse_flow, parse_rotation};
     let rpm = |r: RotationReading| r.measured_rpm();
     assert!((rpm(parse_rotation("40rpm").unwrap()) - 40.0).abs() < 1e-12);

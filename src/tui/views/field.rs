@@ -10,7 +10,7 @@ use ratatui::text::{Line, Span};
 use ratatui::widgets::{Paragraph, Wrap};
 use ratatui::Frame;
 
-use crate::physics::field::{FieldCheck, FlowReading, RotationReading};
+use crate::inverse::field::{FieldCheck, FlowReading, RotationReading};
 use crate::report::field as words;
 use crate::report::fit as fit_words;
 use crate::tui::app::App;

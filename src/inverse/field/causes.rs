@@ -37,10 +37,11 @@
 //! deviation has the opposite sign. Sign convention: rpm explained is
 //! positive when the cause makes the rotor faster than designed.
 
-use super::super::balance::{rad_s, SpinModel};
-use super::super::design::{Bearing, Design};
-use super::super::torque::ResistingTorque;
+use super::infer::with_nozzle_scale;
 use crate::numeric::root::{brent, Tolerance};
+use crate::physics::balance::{rad_s, SpinModel};
+use crate::physics::design::{Bearing, Design};
+use crate::physics::torque::ResistingTorque;
 
 /// A candidate cause of a speed deviation.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
@@ -378,13 +379,7 @@ fn nozzle_alone(at_pressure: &Design, omega: f64, excess: f64, nominal_d: f64) -
             }
         };
     }
-    let net = |s: f64| {
-        let mut d = at_pressure.clone();
-        for arm in &mut d.rotor.arms {
-            arm.nozzle.diameter_m *= s;
-        }
-        SpinModel::new(&d).net(omega)
-    };
+    let net = |s: f64| SpinModel::new(&with_nozzle_scale(at_pressure, s)).net(omega);
     // net(1) = excess > 0 (the model outruns the reading); a smaller nozzle
     // drives less, down to net < 0.
     let lo = 0.02;
