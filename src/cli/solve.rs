@@ -85,15 +85,6 @@ struct SpinUpJson {
     t99: f64,
 }
 
-/// The water path the report describes: at the operating point when
-/// running, at rest otherwise (the water still flows through a stalled rotor).
-pub fn reported_state(report: &SpinReport) -> &SupplyState {
-    report
-        .operating
-        .as_ref()
-        .map_or(&report.at_rest, |op| &op.point.state)
-}
-
 /// Absolute jet velocity of each arm's jet as [radial, tangential, vertical], m/s.
 pub fn jet_components(design: &Design, state: &SupplyState) -> Vec<[f64; 3]> {
     jets(design, state)
@@ -128,13 +119,8 @@ pub fn throws(head: Option<&HeadThrow>, arms: usize) -> (Vec<Option<f64>>, Optio
 /// Build the JSON report.
 pub fn solve_json(design: &Design, report: &SpinReport, head: Option<&HeadThrow>) -> SolveJson {
     let (nozzle_throws, wetted) = throws(head, design.rotor.arms.len());
-    let state = reported_state(report);
-    let r_max = design
-        .rotor
-        .arms
-        .iter()
-        .map(|a| a.radius_m)
-        .fold(0.0, f64::max);
+    let state = report.described_state();
+    let r_max = design.rotor.tip_radius_m();
     SolveJson {
         scenario: design.name.clone(),
         status: report.status.key(),
@@ -261,12 +247,7 @@ pub fn solve_text(
     s.push('\n');
     if let Some(op) = &report.operating {
         let r = op.point.resist;
-        let r_max = design
-            .rotor
-            .arms
-            .iter()
-            .map(|a| a.radius_m)
-            .fold(0.0, f64::max);
+        let r_max = design.rotor.tip_radius_m();
         s.push_str("Operating point\n");
         s.push_str(&format!(
             "  speed              {:.1} rpm   tip speed {}\n",
@@ -326,7 +307,7 @@ pub fn solve_text(
             .collect();
         s.push_str(&format!("  equilibria         {}\n", list.join(", ")));
     }
-    let state = reported_state(report);
+    let state = report.described_state();
     s.push_str(if report.operating.is_some() {
         "Water at speed\n"
     } else {

@@ -357,6 +357,16 @@ pub struct SpinReport {
     pub warnings: Vec<Warning>,
 }
 
+impl SpinReport {
+    /// The water path a report describes: at the operating point when
+    /// running, at rest otherwise (the water still flows through a stalled rotor).
+    pub fn described_state(&self) -> &SupplyState {
+        self.operating
+            .as_ref()
+            .map_or(&self.at_rest, |op| &op.point.state)
+    }
+}
+
 fn root_tolerance(span: f64, scale: f64) -> Tolerance {
     Tolerance {
         x: 1e-14 * span,
@@ -497,13 +507,7 @@ pub fn solve_speed(design: &Design) -> SpinReport {
 pub fn solve_with(design: &Design, options: &SolveOptions) -> SpinReport {
     let model = SpinModel::new(design);
     let mut warnings = Vec::new();
-    let r_max = design
-        .rotor
-        .arms
-        .iter()
-        .map(|a| a.radius_m)
-        .fold(0.0_f64, f64::max)
-        .max(1e-6);
+    let r_max = design.rotor.tip_radius_m().max(1e-6);
     let tip_cap = CAP_TIP_SPEED_M_S / r_max;
 
     // At rest: stall torque and breakaway.

@@ -158,12 +158,7 @@ pub fn cautions(
                 max_rpm: rules.max_rpm,
             });
         }
-        let r_max = design
-            .rotor
-            .arms
-            .iter()
-            .map(|a| a.radius_m)
-            .fold(0.0, f64::max);
+        let r_max = design.rotor.tip_radius_m();
         let tip = w * r_max;
         if tip > rules.max_tip_speed_m_s {
             out.push(Caution::FastTip {

@@ -96,6 +96,14 @@ pub struct Rotor {
     pub inertia: Inertia,
 }
 
+impl Rotor {
+    /// Radius of the farthest nozzle from the spin axis, m (0 with no arms):
+    /// the radius that sets the tip speed.
+    pub fn tip_radius_m(&self) -> f64 {
+        self.arms.iter().map(|a| a.radius_m).fold(0.0, f64::max)
+    }
+}
+
 /// The swivel: inlet bore and its loss coefficient.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Swivel {

@@ -239,13 +239,7 @@ fn operating_section(s: &Solved) -> String {
         SpinStatus::NoEquilibrium => "no equilibrium: it keeps accelerating",
     };
     row(&mut h, "status", status);
-    let r_max = s
-        .design
-        .rotor
-        .arms
-        .iter()
-        .map(|a| a.radius_m)
-        .fold(0.0, f64::max);
+    let r_max = s.design.rotor.tip_radius_m();
     if let Some(op) = &r.operating {
         let w = op.omega_rad_s();
         row(
@@ -310,10 +304,7 @@ fn operating_section(s: &Solved) -> String {
             }),
     );
     h.push_str("</table>\n<h3>Water</h3>\n<table>\n");
-    let state = r
-        .operating
-        .as_ref()
-        .map_or(&r.at_rest, |op| &op.point.state);
+    let state = r.described_state();
     row(
         &mut h,
         if r.operating.is_some() {

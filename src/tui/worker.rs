@@ -203,10 +203,7 @@ fn recommended_for(
 pub fn spray(design: &Design, report: &SpinReport) -> SprayResult {
     let start = Instant::now();
     let opts = PatternOptions::default();
-    let state = report
-        .operating
-        .as_ref()
-        .map_or(&report.at_rest, |op| &op.point.state);
+    let state = report.described_state();
     let arms: Vec<usize> = state
         .nozzles
         .iter()

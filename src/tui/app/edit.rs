@@ -43,11 +43,7 @@ impl App {
     }
 
     pub(super) fn hint(&self) -> ChoiceHint {
-        let state = self
-            .report
-            .operating
-            .as_ref()
-            .map_or(&self.report.at_rest, |op| &op.point.state);
+        let state = self.report.described_state();
         let running = self
             .report
             .operating

@@ -29,12 +29,7 @@ pub fn top_speed(report: &SpinReport, design: &Design) -> f64 {
         _ => {
             // No equilibrium to centre on: stop where the tips reach 10 m/s,
             // well past any working speed (common practice: tips run a few m/s).
-            let r_max = design
-                .rotor
-                .arms
-                .iter()
-                .map(|a| a.radius_m)
-                .fold(0.0, f64::max);
+            let r_max = design.rotor.tip_radius_m();
             if r_max > 0.0 {
                 full.min(10.0 / r_max)
             } else {
