@@ -340,3 +340,50 @@ fn undo_takes_back_nudges_and_typed_values_and_forgets_them_on_open() {
     press(&mut a, KeyCode::Char('z'));
     assert_eq!(a.design, opened);
 }
+
+#[test]
+fn an_answer_to_a_design_edited_meanwhile_is_not_applied() {
+    let (mut a, deflection) = app_on(&cat::DEFLECTION);
+    press(&mut a, KeyCode::Char('g'));
+    typed(&mut a, "50rpm");
+    press(&mut a, KeyCode::Enter);
+    // An edit before the answer is taken in (answers are taken in only
+    // when the app polls, so this order is certain).
+    press(&mut a, KeyCode::Right);
+    let edited = a.design.clone();
+    assert!(a.settle(SETTLE));
+    assert_eq!(a.design, edited);
+    let (level, text) = message(&a);
+    assert_eq!(level, Level::Error);
+    assert!(text.contains("changed while"), "{text}");
+    assert!(deflection.number(&a.design).is_some());
+}
+
+#[test]
+fn marks_toggle_and_a_search_frees_the_selected_input_without_marks() {
+    let (mut a, _) = app_on(&cat::NOZZLE_DIAMETER);
+    press(&mut a, KeyCode::Char('m'));
+    assert_eq!(a.ask.marked, vec![&cat::NOZZLE_DIAMETER]);
+    press(&mut a, KeyCode::Char('m'));
+    assert!(a.ask.marked.is_empty());
+    press(&mut a, KeyCode::Char('e'));
+    match &a.mode {
+        Mode::Search(SearchPanel::Form(f)) => {
+            let free: Vec<Item> = f
+                .lines
+                .iter()
+                .map(|l| l.item)
+                .filter(|i| matches!(i, Item::Free(_)))
+                .collect();
+            assert_eq!(free, vec![Item::Free(&cat::NOZZLE_DIAMETER)]);
+        }
+        other => panic!("{other:?}"),
+    }
+    press(&mut a, KeyCode::Esc);
+    assert_eq!(a.mode, Mode::Normal);
+    // A choice cannot be free.
+    select(&mut a, Field::of(&cat::SUPPLY));
+    press(&mut a, KeyCode::Char('m'));
+    assert!(a.ask.marked.is_empty());
+    assert_eq!(message(&a).0, Level::Error);
+}
