@@ -715,7 +715,7 @@ pub const MOUSE: &[(&str, &str)] = &[
 
 mod lookup;
 
-pub use lookup::{find, help_entries, hints};
+pub use lookup::{find, help_entries, hints, keys_of};
 
 #[cfg(test)]
 mod tests;

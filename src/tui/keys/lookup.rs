@@ -4,7 +4,7 @@
 
 use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
 
-use super::{Binding, Context, Key, Scope, KEYS};
+use super::{Action, Binding, Context, Key, Scope, KEYS};
 use crate::tui::app::View;
 
 impl Key {
@@ -106,4 +106,12 @@ pub fn help_entries() -> Vec<(&'static str, &'static str, String)> {
                 })
         })
         .collect()
+}
+
+/// The keys of `action` in `place`, as the bottom line writes them (for a
+/// popup that names its answers); empty when the table has none there.
+pub fn keys_of(place: Scope, action: Action) -> &'static str {
+    KEYS.iter()
+        .find(|b| b.scope == place && b.action == action)
+        .map_or("", |b| b.hint_key)
 }
