@@ -55,7 +55,7 @@ pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
             "held at rest {} → turning {} ({} %)",
             q(c.at_rest_m),
             q(c.running_m),
-            crate::words::signed(c.change_percent, 0)
+            crate::words::signed(c.change_percent, 1)
         )));
     }
     if app.computing {
