@@ -2,8 +2,7 @@
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use nalgebra::Vector3;
-use spinwright::physics::design::{Layout, SpraySpec, Wind};
-use spinwright::physics::fluid::{AirProps, WaterProps};
+use spinwright::physics::design::{Layout, SpraySpec};
 use spinwright::physics::jet::JetExit;
 use spinwright::physics::layout::{overlap, OverlapOptions};
 use spinwright::physics::pattern::{radial_pattern, windy_pattern, PatternOptions};
@@ -27,14 +26,7 @@ fn jets() -> Vec<JetExit> {
 }
 
 fn env(wind_m_s: f64) -> FlightEnv {
-    FlightEnv::new(
-        &AirProps::at(20.0, 0.0),
-        &WaterProps::at(20.0),
-        &Wind {
-            speed_m_s: wind_m_s,
-            from_rad: 0.5,
-        },
-    )
+    spinwright::physics::fixtures::flight_env_20c(wind_m_s, 0.5)
 }
 
 fn benches(c: &mut Criterion) {

@@ -65,6 +65,15 @@ pub fn caution(c: &Caution, units: UnitSystem) -> String {
     }
 }
 
+/// A signed change with `decimals` decimals, "+1.5" or "−0.3" style but in
+/// ASCII (`+1.5`, `-0.3`); a change that rounds to zero reads `+0`, never `-0`.
+pub fn signed(value: f64, decimals: usize) -> String {
+    let scale = 10f64.powi(decimals as i32);
+    // Adding +0.0 turns a rounded −0.0 into +0.0.
+    let rounded = (value * scale).round() / scale + 0.0;
+    format!("{rounded:+.decimals$}")
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -91,5 +100,13 @@ mod tests {
         };
         assert!(caution(&p, UnitSystem::Us).contains("psi"));
         assert!(caution(&p, UnitSystem::Metric).contains("3.0 times"));
+    }
+
+    #[test]
+    fn a_change_that_rounds_to_zero_has_no_minus_sign() {
+        assert_eq!(signed(-0.3, 0), "+0");
+        assert_eq!(signed(-0.04, 1), "+0.0");
+        assert_eq!(signed(-0.06, 1), "-0.1");
+        assert_eq!(signed(12.34, 1), "+12.3");
     }
 }

@@ -2,8 +2,7 @@
 //! mean rate equals Q/(S·L).
 
 use nalgebra::Vector3;
-use spinwright::physics::design::{Layout, SpraySpec, Wind};
-use spinwright::physics::fluid::{AirProps, WaterProps};
+use spinwright::physics::design::{Layout, SpraySpec};
 use spinwright::physics::jet::JetExit;
 use spinwright::physics::layout::{overlap, HeadPattern, OverlapOptions};
 use spinwright::physics::pattern::{radial_pattern, windy_pattern, PatternOptions, M_S_TO_MM_H};
@@ -11,14 +10,7 @@ use spinwright::physics::trajectory::FlightEnv;
 use std::f64::consts::PI;
 
 fn env(wind_m_s: f64) -> FlightEnv {
-    FlightEnv::new(
-        &AirProps::at(20.0, 0.0),
-        &WaterProps::at(20.0),
-        &Wind {
-            speed_m_s: wind_m_s,
-            from_rad: 1.0,
-        },
-    )
+    spinwright::physics::fixtures::flight_env_20c(wind_m_s, 1.0)
 }
 
 /// Three arms 120° apart, an invented rotor near its operating point.

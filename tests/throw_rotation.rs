@@ -3,8 +3,7 @@
 
 use nalgebra::Vector3;
 use proptest::prelude::*;
-use spinwright::physics::design::{SpraySpec, Wind};
-use spinwright::physics::fluid::{AirProps, WaterProps};
+use spinwright::physics::design::SpraySpec;
 use spinwright::physics::jet::JetExit;
 use spinwright::physics::pattern::{throw_at_rest_and_running, PatternOptions};
 use spinwright::physics::trajectory::{fly_jet, FlightEnv, FlightOptions};
@@ -29,11 +28,7 @@ fn jet(w: f64, alpha: f64, delta: f64, radius: f64, height: f64, omega: f64) -> 
 }
 
 fn env() -> FlightEnv {
-    FlightEnv::new(
-        &AirProps::at(20.0, 0.0),
-        &WaterProps::at(20.0),
-        &Wind::default(),
-    )
+    spinwright::physics::fixtures::flight_env_20c(0.0, 0.0)
 }
 
 proptest! {

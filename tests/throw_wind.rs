@@ -18,7 +18,6 @@ use nalgebra::Vector3;
 use spinwright::physics::balance::solve;
 use spinwright::physics::coverage::{head_throw, layout_overlap};
 use spinwright::physics::design::{Layout, SpraySpec, Wind};
-use spinwright::physics::fluid::{AirProps, WaterProps};
 use spinwright::physics::jet::JetExit;
 use spinwright::physics::layout::OverlapOptions;
 use spinwright::physics::pattern::{
@@ -28,14 +27,7 @@ use spinwright::physics::trajectory::FlightEnv;
 use std::f64::consts::PI;
 
 fn env(wind_m_s: f64) -> FlightEnv {
-    FlightEnv::new(
-        &AirProps::at(20.0, 0.0),
-        &WaterProps::at(20.0),
-        &Wind {
-            speed_m_s: wind_m_s,
-            from_rad: 0.0,
-        },
-    )
+    spinwright::physics::fixtures::flight_env_20c(wind_m_s, 0.0)
 }
 
 /// A single radial 5 mm nozzle at 300 kPa, 25° from 0.6 m, turning slowly

@@ -141,7 +141,11 @@ pub fn run_compare(paths: &[PathBuf], o: Output, out: &mut dyn Write) -> Result<
                                 }
                                 _ => "",
                             };
-                            format!("{} ({p:+.1} %){mark}", sig(Some(*d), 3))
+                            format!(
+                                "{} ({} %){mark}",
+                                sig(Some(*d), 3),
+                                crate::words::signed(*p, 1)
+                            )
                         }
                         (Some(d), None) => sig(Some(*d), 3),
                         _ => "—".to_string(),

@@ -106,15 +106,19 @@ pub fn open_for_edit(path: &Path) -> Result<(String, scenario::Scenario), CliErr
 /// `from` it was read from: only the values that changed are edited, the
 /// comments and the `notes` (the user's, kept as written) stay. When the text
 /// cannot be edited in place the file is written anew, and a note on stderr
-/// says so. Returns the path written, for the report.
+/// says so. Returns the path written, for the report (None when no `out`
+/// was asked for: nothing is written then).
 pub fn save_design_over(
-    out: &Path,
+    out: Option<&Path>,
     from: &Path,
     original: &str,
     notes: &str,
     design: &Design,
     units: UnitSystem,
-) -> Result<String, CliError> {
+) -> Result<Option<String>, CliError> {
+    let Some(out) = out else {
+        return Ok(None);
+    };
     let new = scenario::Scenario::from_design(design, units, notes);
     let saved = scenario::save_scenario(out, Some(original), &new)?;
     if let scenario::Written::Rewritten(why) = &saved.written {
@@ -126,7 +130,7 @@ pub fn save_design_over(
             from.display()
         );
     }
-    Ok(out.display().to_string())
+    Ok(Some(out.display().to_string()))
 }
 
 /// A progress bar on stderr for `len` steps counted in `what` (`points`,

@@ -392,17 +392,14 @@ pub fn run(args: &SearchArgs, out: &mut dyn Write) -> Result<Outcome, CliError> 
         b.finish_and_clear();
     }
     let units: UnitSystem = args.output.units.into();
-    let written = match &args.out {
-        Some(p) => Some(save_design_over(
-            p,
-            path,
-            &original,
-            &source.notes,
-            &result.design,
-            units,
-        )?),
-        None => None,
-    };
+    let written = save_design_over(
+        args.out.as_deref(),
+        path,
+        &original,
+        &source.notes,
+        &result.design,
+        units,
+    )?;
     let best = &result.best;
     match args.output.format {
         Format::Json => {

@@ -189,17 +189,14 @@ pub fn run_target(
         target(&design, adjust, goal).map_err(|e| CliError::Usage(e.to_string()))?;
     let units: UnitSystem = o.units.into();
     let res = resulting(&result, units);
-    let written = match &args.out {
-        Some(p) => Some(save_design_over(
-            p,
-            path,
-            &original,
-            &source.notes,
-            &result.design,
-            units,
-        )?),
-        None => None,
-    };
+    let written = save_design_over(
+        args.out.as_deref(),
+        path,
+        &original,
+        &source.notes,
+        &result.design,
+        units,
+    )?;
     match o.format {
         Format::Json => {
             let j = TargetJson {

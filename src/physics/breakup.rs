@@ -410,15 +410,9 @@ pub fn drag_factor(s_m: f64, relaxation_m: f64, initial: f64) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::physics::design::Wind;
-    use crate::physics::fluid::{AirProps, WaterProps};
 
     fn env() -> FlightEnv {
-        FlightEnv::new(
-            &AirProps::at(20.0, 0.0),
-            &WaterProps::at(20.0),
-            &Wind::default(),
-        )
+        crate::physics::fixtures::flight_env_20c(0.0, 0.0)
     }
 
     fn jet(omega: f64) -> JetExit {

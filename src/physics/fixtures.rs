@@ -7,6 +7,23 @@ use super::design::{
     Arm, Bearing, Brake, Design, Friction, Inertia, Nozzle, Rotor, Seal, Site, SpraySpec, Supply,
     Swivel, Tube, Washer, WasherRule, Wind,
 };
+use super::fluid::{AirProps, WaterProps};
+use super::trajectory::FlightEnv;
+
+/// Air and water both at 20 °C, air at sea level, with a wind of
+/// `speed_m_s` blowing from `from_rad` (counter-clockwise from +x, as
+/// [`Wind`]); the
+/// flight conditions of most throw tests and benchmarks.
+pub fn flight_env_20c(speed_m_s: f64, from_rad: f64) -> FlightEnv {
+    FlightEnv::new(
+        &AirProps::at(20.0, 0.0),
+        &WaterProps::at(20.0),
+        &Wind {
+            speed_m_s,
+            from_rad,
+        },
+    )
+}
 
 /// `count` identical arms spaced evenly in azimuth, each with the same nozzle.
 ///
@@ -136,8 +153,6 @@ pub mod published_throw {
 
     use nalgebra::Vector3;
 
-    use crate::physics::design::Wind;
-    use crate::physics::fluid::{AirProps, WaterProps};
     use crate::physics::jet::JetExit;
     use crate::physics::trajectory::FlightEnv;
 
@@ -155,11 +170,7 @@ pub mod published_throw {
 
     /// Still air and water, both at 20 °C, at sea level.
     pub fn env() -> FlightEnv {
-        FlightEnv::new(
-            &AirProps::at(20.0, 0.0),
-            &WaterProps::at(20.0),
-            &Wind::default(),
-        )
+        super::flight_env_20c(0.0, 0.0)
     }
 
     /// A radial nozzle of diameter `d_m` (m) at `p_pa` (Pa) across it,

@@ -2,19 +2,10 @@
 
 use super::wind::same_jet_turned;
 use super::*;
-use crate::physics::design::Wind;
-use crate::physics::fluid::{AirProps, WaterProps};
 use nalgebra::{Vector2, Vector3};
 
 fn env(wind_m_s: f64) -> FlightEnv {
-    FlightEnv::new(
-        &AirProps::at(20.0, 0.0),
-        &WaterProps::at(20.0),
-        &Wind {
-            speed_m_s: wind_m_s,
-            from_rad: 0.3,
-        },
-    )
+    crate::physics::fixtures::flight_env_20c(wind_m_s, 0.3)
 }
 
 fn jets() -> Vec<JetExit> {

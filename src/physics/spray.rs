@@ -405,16 +405,11 @@ pub fn calibrate(
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::physics::design::Wind;
-    use crate::physics::fluid::{AirProps, WaterProps};
+
     use nalgebra::Vector3;
 
     fn env() -> FlightEnv {
-        FlightEnv::new(
-            &AirProps::at(20.0, 0.0),
-            &WaterProps::at(20.0),
-            &Wind::default(),
-        )
+        crate::physics::fixtures::flight_env_20c(0.0, 0.0)
     }
 
     fn jet() -> JetExit {

@@ -69,13 +69,13 @@ use crate::units::UnitSystem;
 pub struct App {
     // The design and its file.
     /// The design being edited (always valid).
-    pub(crate) design: Design,
+    pub(in crate::tui) design: Design,
     /// Edited since last saved.
-    pub(crate) dirty: bool,
+    pub(in crate::tui) dirty: bool,
     /// The file it came from or was saved to.
-    pub(crate) path: Option<PathBuf>,
+    pub(in crate::tui) path: Option<PathBuf>,
     /// Where the file picker looks (`scenarios/` below it, and itself).
-    pub(crate) base_dir: PathBuf,
+    pub(in crate::tui) base_dir: PathBuf,
     /// The scenario's notes, kept for saving.
     notes: String,
     /// The file's text as last read or written (to notice changes on disk).
@@ -86,64 +86,64 @@ pub struct App {
 
     // What the model says about it.
     /// Spin solution of the design.
-    pub(crate) report: SpinReport,
+    pub(in crate::tui) report: SpinReport,
     /// Torque–speed table of the design (the Balance view's).
-    pub(crate) table: Vec<TableRow>,
+    pub(in crate::tui) table: Vec<TableRow>,
     /// Throw, pattern and layout (possibly of an earlier edit while `computing`).
-    pub(crate) spray: Option<Box<SprayResult>>,
+    pub(in crate::tui) spray: Option<Box<SprayResult>>,
     /// A newer spray result has been asked for.
-    pub(crate) computing: bool,
+    pub(in crate::tui) computing: bool,
     spray_id: u64,
     next_id: u64,
     worker: Worker,
 
     // The screen.
     /// Unit system for everything shown.
-    pub(crate) units: UnitSystem,
+    pub(in crate::tui) units: UnitSystem,
     /// The view on the right.
-    pub(crate) view: View,
+    pub(in crate::tui) view: View,
     /// Whether the list edits the arms together (one block) or apart.
-    pub(crate) arms: Arms,
+    pub(in crate::tui) arms: Arms,
     /// The list's rows.
-    pub(crate) rows: Vec<Row>,
+    pub(in crate::tui) rows: Vec<Row>,
     /// Index of the selected row (always a field).
-    pub(crate) selected: usize,
+    pub(in crate::tui) selected: usize,
     /// First row shown in the list.
-    pub(crate) list_offset: usize,
+    pub(in crate::tui) list_offset: usize,
     /// Scroll of the view on the right (table rows, compare lines).
-    pub(crate) pane_scroll: usize,
+    pub(in crate::tui) pane_scroll: usize,
     /// Keyboard mode.
-    pub(crate) mode: Mode,
+    pub(in crate::tui) mode: Mode,
     /// The message line.
-    pub(crate) message: Option<Message>,
+    pub(in crate::tui) message: Option<Message>,
     /// Terminal size.
-    pub(crate) size: (u16, u16),
+    pub(in crate::tui) size: (u16, u16),
     /// Colours.
-    pub(crate) theme: Theme,
+    pub(in crate::tui) theme: Theme,
     /// Set when the program should end.
-    pub(crate) quit: bool,
+    pub(in crate::tui) quit: bool,
 
     // The Compare view.
     /// Designs pinned for comparison.
-    pub(crate) pins: Vec<Pinned>,
+    pub(in crate::tui) pins: Vec<Pinned>,
     /// The pin the Compare keys act on (dropped, moved).
-    pub(crate) pin_selected: usize,
+    pub(in crate::tui) pin_selected: usize,
     /// The comparison of the design with the pinned ones.
-    pub(crate) comparison: Pending<Result<Comparison, String>>,
+    pub(in crate::tui) comparison: Pending<Result<Comparison, String>>,
 
     // The Field view.
     /// Field-check readings.
-    pub(crate) measured: Measured,
+    pub(in crate::tui) measured: Measured,
     /// The field check of the design against the readings.
-    pub(crate) field: Pending<Result<FieldCheck, String>>,
+    pub(in crate::tui) field: Pending<Result<FieldCheck, String>>,
     /// Readings at several pressures and the coast-down, with their fits.
-    pub(crate) unit: UnitReadings,
+    pub(in crate::tui) unit: UnitReadings,
 
     // Questions asked of the design, and the edits' history.
     /// Goals and design searches.
-    pub(crate) ask: Ask,
+    pub(in crate::tui) ask: Ask,
     /// The edits undo and redo go through.
-    pub(crate) history: History,
+    pub(in crate::tui) history: History,
 }
 
 impl App {

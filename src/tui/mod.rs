@@ -2,6 +2,8 @@
 //!
 //! - [`app`]: the state and every change to it ([`App::event`]).
 //! - [`fields`]: the editable list — what each field is, its unit and steps.
+//! - [`keys`]: the one key table; dispatch, the bottom line and the help
+//!   screen are read from it.
 //! - [`views`]: drawing, one file per view; drawing only reads.
 //! - [`worker`]: throw, pattern and layout on a thread of their own.
 //! - [`layout`]: where things go, shared by drawing and mouse handling.

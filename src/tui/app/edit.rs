@@ -137,26 +137,12 @@ impl App {
             InputTarget::Measured(Measure::Pressure) => self
                 .measured
                 .pressure_pa
-                .map(|p| {
-                    let shown = units::to_display(D::Pressure, p, self.units);
-                    format!(
-                        "{}{}",
-                        units::format_number(shown),
-                        units::unit_label(D::Pressure, self.units)
-                    )
-                })
+                .map(|v| seed(D::Pressure, v, self.units))
                 .unwrap_or_default(),
             InputTarget::Measured(Measure::Throw) => self
                 .measured
                 .throw_m
-                .map(|m| {
-                    let shown = units::to_display(D::Length, m, self.units);
-                    format!(
-                        "{}{}",
-                        units::format_number(shown),
-                        units::unit_label(D::Length, self.units)
-                    )
-                })
+                .map(|v| seed(D::Length, v, self.units))
                 .unwrap_or_default(),
             InputTarget::Measured(Measure::Coast) => self.turn_times_seed(),
             InputTarget::Measured(Measure::Rotation | Measure::Flow) | InputTarget::Goal(_) => {
@@ -313,6 +299,15 @@ impl App {
             },
         }
     }
+}
+
+/// A value as a typing seed: the number in the shown unit, then the unit.
+fn seed(dim: D, si: f64, system: units::UnitSystem) -> String {
+    format!(
+        "{}{}",
+        units::format_number(units::to_display(dim, si, system)),
+        units::unit_label(dim, system)
+    )
 }
 
 /// How the list first shows a design's arms: together when they are alike.

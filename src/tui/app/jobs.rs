@@ -46,38 +46,10 @@ impl App {
                 }
                 false
             }
-            Done::Compare { id, result } => {
-                if id == self.comparison.id {
-                    self.comparison.result = Some(result);
-                    self.comparison.waiting = false;
-                    return true;
-                }
-                false
-            }
-            Done::Field { id, result } => {
-                if id == self.field.id {
-                    self.field.result = Some(result);
-                    self.field.waiting = false;
-                    return true;
-                }
-                false
-            }
-            Done::Fit { id, result } => {
-                if id == self.unit.fit.id {
-                    self.unit.fit.result = Some(result);
-                    self.unit.fit.waiting = false;
-                    return true;
-                }
-                false
-            }
-            Done::Coast { id, result } => {
-                if id == self.unit.coast.id {
-                    self.unit.coast.result = Some(result);
-                    self.unit.coast.waiting = false;
-                    return true;
-                }
-                false
-            }
+            Done::Compare { id, result } => self.comparison.accept(id, result),
+            Done::Field { id, result } => self.field.accept(id, result),
+            Done::Fit { id, result } => self.unit.fit.accept(id, result),
+            Done::Coast { id, result } => self.unit.coast.accept(id, result),
         }
     }
 

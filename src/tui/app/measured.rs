@@ -59,16 +59,13 @@ impl App {
                 self.measured.pressure_pa = None;
                 Ok(())
             }
-            Measure::Pressure => {
-                match fields::parse_typed(Field::of(&catalogue::INLET_PRESSURE), t, self.units) {
-                    Ok(Some(p)) if p > 0.0 => {
-                        self.measured.pressure_pa = Some(p);
-                        Ok(())
-                    }
-                    Ok(_) => Err("a measured pressure must be above zero".to_string()),
-                    Err(e) => Err(e.0),
-                }
-            }
+            Measure::Pressure => positive(
+                Field::of(&catalogue::INLET_PRESSURE),
+                t,
+                self.units,
+                "pressure",
+            )
+            .map(|v| self.measured.pressure_pa = Some(v)),
             Measure::Rotation if empty => {
                 self.measured.rotation = None;
                 Ok(())
@@ -87,16 +84,13 @@ impl App {
                 self.measured.throw_m = None;
                 Ok(())
             }
-            Measure::Throw => {
-                match fields::parse_typed(Field::of(&catalogue::SQUARE_SPACING), t, self.units) {
-                    Ok(Some(r)) if r > 0.0 => {
-                        self.measured.throw_m = Some(r);
-                        Ok(())
-                    }
-                    Ok(_) => Err("a measured wetted radius must be above zero".to_string()),
-                    Err(e) => Err(e.0),
-                }
-            }
+            Measure::Throw => positive(
+                Field::of(&catalogue::SQUARE_SPACING),
+                t,
+                self.units,
+                "wetted radius",
+            )
+            .map(|v| self.measured.throw_m = Some(v)),
         };
         match result {
             Ok(()) => self.request_field(),
@@ -143,6 +137,15 @@ pub fn parse_rotation(text: &str) -> Result<RotationReading, String> {
             "the time per turn",
         )?)),
         Err(_) => Err(format!("`{t}` is not a rotation; {help}")),
+    }
+}
+
+/// A measured quantity typed as a field of its dimension, above zero.
+fn positive(f: Field, text: &str, system: UnitSystem, what: &str) -> Result<f64, String> {
+    match fields::parse_typed(f, text, system) {
+        Ok(Some(v)) if v > 0.0 => Ok(v),
+        Ok(_) => Err(format!("a measured {what} must be above zero")),
+        Err(e) => Err(e.0),
     }
 }
 

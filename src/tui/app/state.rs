@@ -163,6 +163,18 @@ pub struct Pending<T> {
     pub(super) id: u64,
 }
 
+impl<T> Pending<T> {
+    /// Takes `result` when it answers the latest request (`id`); true when taken.
+    pub(super) fn accept(&mut self, id: u64, result: Box<T>) -> bool {
+        if id != self.id {
+            return false;
+        }
+        self.result = Some(result);
+        self.waiting = false;
+        true
+    }
+}
+
 impl<T> Default for Pending<T> {
     fn default() -> Self {
         Pending {

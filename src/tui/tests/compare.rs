@@ -8,11 +8,7 @@ fn compare_view_shows_what_an_edit_changed() {
     a.event(&key(KeyCode::Char('5')));
     a.event(&key(KeyCode::Char('c')));
     assert_eq!(a.pins.len(), 1);
-    select(&mut a, Field::of(&cat::DEFLECTION));
-    a.event(&key(KeyCode::Enter));
-    clear_input(&mut a);
-    typed(&mut a, "5deg");
-    a.event(&key(KeyCode::Enter));
+    type_into(&mut a, Field::of(&cat::DEFLECTION), "5deg");
     assert!(a.settle(SETTLE));
     let c = match a.comparison.result.as_deref() {
         Some(Ok(c)) => c.clone(),

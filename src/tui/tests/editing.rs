@@ -27,11 +27,7 @@ fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
     assert!(op_rpm(&a) > before, "{} vs {before}", op_rpm(&a));
 
     // Type a pressure with a US unit while showing metric.
-    select(&mut a, Field::of(&cat::INLET_PRESSURE));
-    a.event(&key(KeyCode::Enter));
-    clear_input(&mut a);
-    typed(&mut a, "45psi");
-    a.event(&key(KeyCode::Enter));
+    type_into(&mut a, Field::of(&cat::INLET_PRESSURE), "45psi");
     let want = 45.0 * crate::units::factor::PSI_PA;
     assert_eq!(a.mode, Mode::Normal);
     match a.design.supply {
@@ -43,11 +39,7 @@ fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
 
     // A refused value says why and keeps the old one.
     let kept = a.design.clone();
-    select(&mut a, Field::of(&cat::NOZZLE_DIAMETER));
-    a.event(&key(KeyCode::Enter));
-    clear_input(&mut a);
-    typed(&mut a, "-1mm");
-    a.event(&key(KeyCode::Enter));
+    type_into(&mut a, Field::of(&cat::NOZZLE_DIAMETER), "-1mm");
     assert_eq!(a.design, kept);
     let msg = a.message.clone().expect("a refusal message").text;
     assert!(
@@ -63,11 +55,7 @@ fn scripted_edit_nudge_type_switch_and_save_reloads_the_same_scenario() {
 
     // A 6.5 in arm radius on arm 3 alone, typed in inches.
     a.event(&key(KeyCode::Char('a')));
-    select(&mut a, Field::on_arm(&cat::RADIUS, 2));
-    a.event(&key(KeyCode::Enter));
-    clear_input(&mut a);
-    typed(&mut a, "6.5in");
-    a.event(&key(KeyCode::Enter));
+    type_into(&mut a, Field::on_arm(&cat::RADIUS, 2), "6.5in");
     assert!((a.design.rotor.arms[2].radius_m - 0.1651).abs() < 1e-9);
     assert!((a.design.rotor.arms[1].radius_m - 0.1651).abs() > 1e-3);
 
@@ -135,16 +123,7 @@ fn arms_are_added_removed_and_share_a_nozzle() {
         .all(|arm| arm.nozzle.diameter_m == big));
     a.event(&key(KeyCode::Char('+')));
     assert_eq!(a.design.rotor.arms.len(), 4);
-    let az: Vec<f64> = a
-        .design
-        .rotor
-        .arms
-        .iter()
-        .map(|arm| arm.azimuth_rad.to_degrees())
-        .collect();
-    for (k, z) in az.iter().enumerate() {
-        assert!((z - 90.0 * k as f64).abs() < 1e-9, "{az:?}");
-    }
+    assert_evenly_spread(&a, 90.0);
     assert!(a.rows.contains(&Row::ArmHeading(3)));
     a.event(&key(KeyCode::Char('-')));
     a.event(&key(KeyCode::Char('-')));
@@ -218,25 +197,12 @@ fn one_edit_of_the_whole_rotor_changes_all_three_arms() {
     );
     assert!(a.rows.contains(&Row::AllArmsHeading));
     assert!(!a.rows.iter().any(|r| matches!(r, Row::ArmHeading(_))));
-    select(&mut a, Field::of(&cat::RADIUS));
-    a.event(&key(KeyCode::Enter));
-    clear_input(&mut a);
-    typed(&mut a, "250mm");
-    a.event(&key(KeyCode::Enter));
+    type_into(&mut a, Field::of(&cat::RADIUS), "250mm");
     assert_eq!(radii(&a), vec![0.25; 3], "{:?}", a.message);
     // One nudge moves every arm too, and the azimuths stay evenly spread.
     a.event(&key(KeyCode::Right));
     assert_eq!(radii(&a), vec![0.255; 3]);
-    let az: Vec<f64> = a
-        .design
-        .rotor
-        .arms
-        .iter()
-        .map(|arm| arm.azimuth_rad.to_degrees())
-        .collect();
-    for (k, z) in az.iter().enumerate() {
-        assert!((z - 120.0 * k as f64).abs() < 1e-9, "{az:?}");
-    }
+    assert_evenly_spread(&a, 120.0);
     // Adding an arm keeps them together and alike, four evenly spread.
     a.event(&key(KeyCode::Char('+')));
     assert_eq!(a.design.rotor.arms.len(), 4);
@@ -254,11 +220,7 @@ fn arms_split_for_one_arm_and_join_back_only_when_alike() {
     a.event(&key(KeyCode::Char('a')));
     assert_eq!(a.arms, Arms::Apart);
     assert!(a.rows.contains(&Row::ArmHeading(2)));
-    select(&mut a, Field::on_arm(&cat::RADIUS, 1));
-    a.event(&key(KeyCode::Enter));
-    clear_input(&mut a);
-    typed(&mut a, "300mm");
-    a.event(&key(KeyCode::Enter));
+    type_into(&mut a, Field::on_arm(&cat::RADIUS, 1), "300mm");
     let r = radii(&a);
     assert_eq!(r[1], 0.3);
     assert!(r[0] != 0.3 && r[2] != 0.3, "{r:?}");

@@ -204,9 +204,34 @@ fn help_closes_on_any_other_key_and_a_question_shows_its_keys() {
     assert_eq!(a.mode, Mode::Confirm(Confirm::QuitUnsaved));
     let s = screen(&mut a, 80, 24);
     assert!(s.contains("unsaved changes"), "{s}");
+    for answer in ["s  save, then quit", "y  quit without saving", "Esc  stay"] {
+        assert!(s.contains(answer), "{answer} in {s}");
+    }
     let bottom = bottom_line(&mut a, 80, 24);
     for item in ["s save and quit", "y quit without saving", "Esc stay"] {
         assert!(bottom.contains(item), "{item} in {bottom}");
     }
     assert!(a.settle(SETTLE));
+}
+
+#[test]
+fn every_question_names_the_answers_of_the_table() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut a = app();
+    let yes = keys::keys_of(Scope::Question, crate::tui::keys::Action::Yes);
+    let no = keys::keys_of(Scope::Question, crate::tui::keys::Action::No);
+    assert!(!yes.is_empty() && !no.is_empty());
+    for c in [
+        Confirm::OpenUnsaved(dir.path().join("a.ron")),
+        Confirm::OverwriteChanged(dir.path().join("b.ron")),
+        Confirm::OverwriteExisting(dir.path().join("c.ron")),
+    ] {
+        a.mode = Mode::Confirm(c.clone());
+        let s = screen(&mut a, 100, 30);
+        assert!(s.contains(&format!("{yes}  ")), "{c:?}: {s}");
+        assert!(s.contains(&format!("{no}  ")), "{c:?}: {s}");
+        // And the bottom line says the same keys.
+        let bottom = bottom_line(&mut a, 100, 30);
+        assert!(bottom.contains(&format!(" {yes} yes")) && bottom.contains(&format!(" {no} no")));
+    }
 }

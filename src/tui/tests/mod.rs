@@ -83,6 +83,29 @@ fn select(app: &mut App, f: Field) {
     panic!("{f:?} not reachable with Down");
 }
 
+/// Selects `f` and types `text` into it (the old value cleared first).
+fn type_into(app: &mut App, f: Field, text: &str) {
+    select(app, f);
+    app.event(&key(KeyCode::Enter));
+    clear_input(app);
+    typed(app, text);
+    app.event(&key(KeyCode::Enter));
+}
+
+/// The arms stand `step_deg` apart, the first at 0°.
+fn assert_evenly_spread(app: &App, step_deg: f64) {
+    let az: Vec<f64> = app
+        .design
+        .rotor
+        .arms
+        .iter()
+        .map(|arm| arm.azimuth_rad.to_degrees())
+        .collect();
+    for (k, z) in az.iter().enumerate() {
+        assert!((z - step_deg * k as f64).abs() < 1e-9, "{az:?}");
+    }
+}
+
 fn op_rpm(app: &App) -> f64 {
     rpm(app
         .report

@@ -6,11 +6,7 @@ use super::*;
 fn a_windy_pattern_says_the_wind_and_a_stalled_rotor_says_it_stalls() {
     let mut a = app();
     a.event(&key(KeyCode::Char('3')));
-    select(&mut a, Field::of(&cat::WIND_SPEED));
-    a.event(&key(KeyCode::Enter));
-    clear_input(&mut a);
-    typed(&mut a, "3m/s");
-    a.event(&key(KeyCode::Enter));
+    type_into(&mut a, Field::of(&cat::WIND_SPEED), "3m/s");
     assert!((a.design.wind.speed_m_s - 3.0).abs() < 1e-9);
     assert!(a.computing, "a windy pattern goes to the worker");
     assert!(a.settle(SETTLE));
@@ -25,11 +21,7 @@ fn a_windy_pattern_says_the_wind_and_a_stalled_rotor_says_it_stalls() {
 
     // Nozzles turned past radial (95°) on every arm: they brake, it cannot start.
     let mut b = app();
-    select(&mut b, Field::of(&cat::DEFLECTION));
-    b.event(&key(KeyCode::Enter));
-    clear_input(&mut b);
-    typed(&mut b, "95deg");
-    b.event(&key(KeyCode::Enter));
+    type_into(&mut b, Field::of(&cat::DEFLECTION), "95deg");
     assert!(b.report.operating.is_none(), "95° deflection stalls it");
     assert!(b.settle(SETTLE));
     let shown = screen(&mut b, 80, 24);
@@ -195,11 +187,7 @@ fn practice_warnings_show_in_the_status_line_and_the_balance_view() {
 fn pattern_view_says_when_heads_do_not_meet() {
     let mut a = app();
     a.event(&key(KeyCode::Char('3')));
-    select(&mut a, Field::of(&cat::SQUARE_SPACING));
-    a.event(&key(KeyCode::Enter));
-    clear_input(&mut a);
-    typed(&mut a, "60m");
-    a.event(&key(KeyCode::Enter));
+    type_into(&mut a, Field::of(&cat::SQUARE_SPACING), "60m");
     assert!(a.settle(SETTLE));
     let shown = screen(&mut a, 100, 30);
     assert!(shown.contains("heads do not meet"), "{shown}");

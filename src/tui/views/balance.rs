@@ -40,7 +40,7 @@ pub fn top_speed(report: &SpinReport, design: &Design) -> f64 {
 }
 
 /// The Balance view's torque–speed table: the model's table
-/// ([`torque_table_to`]) from rest to [`top_speed`], [`TABLE_POINTS`] rows.
+/// ([`torque_table_to`]) from rest to `top_speed`, `TABLE_POINTS` rows.
 pub fn table(design: &Design, report: &SpinReport) -> Vec<TableRow> {
     torque_table_to(design, report, top_speed(report, design), TABLE_POINTS)
 }

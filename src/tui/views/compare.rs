@@ -102,7 +102,9 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
             };
             let pct = r.percents.get(k).copied().flatten();
             let text = match (d, pct) {
-                (Some(d), Some(p)) if d != 0.0 => format!("{base} {p:+.1}%{mark}"),
+                (Some(d), Some(p)) if d != 0.0 => {
+                    format!("{base} {}%{mark}", crate::words::signed(p, 1))
+                }
                 (Some(d), None) if d != 0.0 => {
                     let sign = if d > 0.0 { "+" } else { "" };
                     format!("{base} {sign}{}{mark}", num(delta(d)))

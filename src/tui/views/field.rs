@@ -188,10 +188,10 @@ fn check_lines(app: &App, c: &FieldCheck) -> Vec<Line<'static>> {
     }));
     if let Some(f) = &c.flow {
         let mut s = format!(
-            "flow {} against {} for new nozzles ({:+.1} %)",
+            "flow {} against {} for new nozzles ({} %)",
             q(D::Flow, f.measured_m3_s),
             q(D::Flow, f.nominal_m3_s),
-            f.deviation_percent
+            crate::words::signed(f.deviation_percent, 1)
         );
         if let Some(d) = f.implied_effective_diameter_m {
             s.push_str(&format!(

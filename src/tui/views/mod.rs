@@ -21,7 +21,7 @@ use ratatui::Frame;
 
 use super::app::{App, Confirm, InputTarget, Level, Measure, Mode, View};
 use super::fields::{self, Field, Kind, Row, Stride};
-use super::keys;
+use super::keys::{self, Action, Scope};
 use super::layout;
 use crate::physics::balance::{rpm, SpinStatus};
 use crate::units::{format_quantity, Dimension as D};
@@ -417,33 +417,74 @@ fn draw_picker(app: &App, frame: &mut Frame, p: &super::app::Picker) {
 
 fn draw_confirm(app: &App, frame: &mut Frame, c: &Confirm) {
     let t = &app.theme;
-    let (title, text) = match c {
+    // The answers' keys come from the key table.
+    let (quit, ask) = (Scope::QuitQuestion, Scope::Question);
+    let answer = |place, action, what: &str| format!("{}  {what}", keys::keys_of(place, action));
+    let (title, question, answers) = match c {
         Confirm::QuitUnsaved => (
             " unsaved changes ",
-            "The design has changes that are not saved.\n\ns  save, then quit\ny  quit without saving\nEsc  stay".to_string(),
+            "The design has changes that are not saved.".to_string(),
+            [
+                answer(quit, Action::SaveAndQuit, "save, then quit"),
+                answer(quit, Action::Yes, "quit without saving"),
+                answer(quit, Action::No, "stay"),
+            ]
+            .join("\n"),
         ),
         Confirm::OpenUnsaved(p) => (
             " unsaved changes ",
-            format!(
-                "Open {} and drop the unsaved changes?\n\ny  open it\nn  stay (then s to save)",
-                p.display()
-            ),
+            format!("Open {} and drop the unsaved changes?", p.display()),
+            [
+                answer(ask, Action::Yes, "open it"),
+                answer(
+                    ask,
+                    Action::No,
+                    &format!(
+                        "stay (then {} to save)",
+                        keys::keys_of(Scope::Normal, Action::Save)
+                    ),
+                ),
+            ]
+            .join("\n"),
         ),
         Confirm::OverwriteChanged(p) => (
             " changed on disk ",
             format!(
-                "{} has changed on disk since it was opened or saved here.\n\ny  overwrite it (the old file is kept as .bak)\nn  do not save (S saves under another name)",
+                "{} has changed on disk since it was opened or saved here.",
                 p.display()
             ),
+            [
+                answer(
+                    ask,
+                    Action::Yes,
+                    "overwrite it (the old file is kept as .bak)",
+                ),
+                answer(
+                    ask,
+                    Action::No,
+                    &format!(
+                        "do not save ({} saves under another name)",
+                        keys::keys_of(Scope::Normal, Action::SaveAs)
+                    ),
+                ),
+            ]
+            .join("\n"),
         ),
         Confirm::OverwriteExisting(p) => (
             " file exists ",
-            format!(
-                "{} already exists.\n\ny  overwrite it (the old file is kept as .bak)\nn  do not save",
-                p.display()
-            ),
+            format!("{} already exists.", p.display()),
+            [
+                answer(
+                    ask,
+                    Action::Yes,
+                    "overwrite it (the old file is kept as .bak)",
+                ),
+                answer(ask, Action::No, "do not save"),
+            ]
+            .join("\n"),
         ),
     };
+    let text = format!("{question}\n\n{answers}");
     let r = popup(frame, 64, 9);
     let block = Block::bordered()
         .title(Line::from(title))

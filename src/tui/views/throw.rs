@@ -52,10 +52,10 @@ pub fn draw(app: &App, frame: &mut Frame, area: Rect) {
     ))];
     if let Some(c) = &spray.comparison {
         head.push(Line::raw(format!(
-            "held at rest {} → turning {} ({:+.0} %)",
+            "held at rest {} → turning {} ({} %)",
             q(c.at_rest_m),
             q(c.running_m),
-            c.change_percent
+            crate::words::signed(c.change_percent, 1)
         )));
     }
     if app.computing {
