@@ -27,12 +27,18 @@ fn speed(design: &Design) -> f64 {
         .omega_rad_s())
 }
 
-/// Asks for `goal` on the selected input with `g` and waits for the answer.
-fn ask_goal(a: &mut App, goal: &str) {
+/// Asks for `goal` on the selected input with `g` (the answer is taken in
+/// when the app next polls).
+fn start_goal(a: &mut App, goal: &str) {
     press(a, KeyCode::Char('g'));
     assert!(matches!(a.mode, Mode::Typing(_)), "{:?}", a.mode);
     typed(a, goal);
     press(a, KeyCode::Enter);
+}
+
+/// Asks for `goal` on the selected input and waits for the answer.
+fn ask_goal(a: &mut App, goal: &str) {
+    start_goal(a, goal);
     assert!(a.settle(SETTLE), "the goal search did not finish");
 }
 
@@ -344,9 +350,7 @@ fn undo_takes_back_nudges_and_typed_values_and_forgets_them_on_open() {
 #[test]
 fn an_answer_to_a_design_edited_meanwhile_is_not_applied() {
     let (mut a, deflection) = app_on(&cat::DEFLECTION);
-    press(&mut a, KeyCode::Char('g'));
-    typed(&mut a, "50rpm");
-    press(&mut a, KeyCode::Enter);
+    start_goal(&mut a, "50rpm");
     // An edit before the answer is taken in (answers are taken in only
     // when the app polls, so this order is certain).
     press(&mut a, KeyCode::Right);
