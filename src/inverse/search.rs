@@ -29,7 +29,7 @@ mod evaluate;
 mod finish;
 mod goals;
 
-use std::sync::atomic::{AtomicUsize, Ordering};
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 use std::sync::Mutex;
 
 use argmin::core::{Executor, State};
@@ -126,6 +126,22 @@ pub fn search(
     options: &SearchOptions,
     progress: &(dyn Fn(usize, usize) + Sync),
 ) -> Result<SearchResult, SearchError> {
+    let never = AtomicBool::new(false);
+    search_until(design, free, goals, objective, options, progress, &never)
+}
+
+/// [`search`] that a caller on another thread can stop: once `stop` is set,
+/// every start ends at its next candidate and the search returns
+/// [`SearchError::Stopped`] instead of a result.
+pub fn search_until(
+    design: &Design,
+    free: &[Free],
+    goals: &Goals,
+    objective: Objective,
+    options: &SearchOptions,
+    progress: &(dyn Fn(usize, usize) + Sync),
+    stop: &AtomicBool,
+) -> Result<SearchResult, SearchError> {
     let mut goals = *goals;
     if objective == Objective::Spacing && goals.cu_percent.is_none() {
         goals.cu_percent = Some(85.0);
@@ -151,6 +167,7 @@ pub fn search(
         },
         archive: Mutex::new(Vec::new()),
         count: AtomicUsize::new(0),
+        stop,
     };
     // Starts: the design's own values (clamped into the ranges), then a
     // Latin hypercube.
@@ -170,14 +187,18 @@ pub fn search(
     ));
     let total = starts.len() + 1;
     let done = AtomicUsize::new(0);
-    starts
+    let ran = starts
         .into_par_iter()
         .map(|u0| {
             let r = run_start(&problem, u0, options.max_iters);
             progress(done.fetch_add(1, Ordering::Relaxed) + 1, total);
             r
         })
-        .collect::<Result<Vec<()>, SearchError>>()?;
+        .collect::<Result<Vec<()>, SearchError>>();
+    if problem.stopped() {
+        return Err(SearchError::Stopped);
+    }
+    ran?;
     let mut ranked = problem
         .archive
         .lock()
@@ -199,6 +220,9 @@ pub fn search(
         .map(|(f, _)| f.input)
         .collect();
     let closest = closest(&problem, &best, &ranked, &checked);
+    if problem.stopped() {
+        return Err(SearchError::Stopped);
+    }
     let sensitivity = sensitivity(&problem, free, &best, options.perturbation);
     progress(total, total);
 

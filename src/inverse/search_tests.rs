@@ -116,6 +116,41 @@ fn an_impossible_goal_is_reported_with_how_close_it_came() {
     assert!(c.best.unwrap() > 1.0 && c.best.unwrap() < 500.0, "{c:?}");
 }
 
+#[test]
+fn a_search_asked_to_stop_ends_early_without_a_result() {
+    let d = three_arm_rotor();
+    let free = [Free {
+        input: &DEFLECTION,
+        from: 20f64.to_radians(),
+        to: 80f64.to_radians(),
+    }];
+    let goals = Goals::default();
+    // Stop as soon as the first start has finished: the other starts end at
+    // their next candidate, and no finalists or sensitivity are worked out.
+    let stop = AtomicBool::new(false);
+    let r = search_until(
+        &d,
+        &free,
+        &goals,
+        Objective::Margin,
+        &quick(),
+        &|_, _| stop.store(true, Ordering::Relaxed),
+        &stop,
+    );
+    assert!(matches!(r, Err(SearchError::Stopped)), "{r:?}");
+    // Set before it begins: not one candidate is solved to completion.
+    let r = search_until(
+        &d,
+        &free,
+        &goals,
+        Objective::Margin,
+        &quick(),
+        &|_, _| {},
+        &stop,
+    );
+    assert!(matches!(r, Err(SearchError::Stopped)), "{r:?}");
+}
+
 /// A CU search problem on `design`, screened.
 fn cu_problem<'a>(design: &'a Design, free: &'a [Free]) -> Problem<'a> {
     Problem {
@@ -130,8 +165,12 @@ fn cu_problem<'a>(design: &'a Design, free: &'a [Free]) -> Problem<'a> {
         screen: Fidelity::Screen,
         archive: Mutex::new(Vec::new()),
         count: AtomicUsize::new(0),
+        stop: &NEVER,
     }
 }
+
+/// A stop flag nobody sets.
+static NEVER: AtomicBool = AtomicBool::new(false);
 
 #[test]
 fn in_wind_the_screen_is_within_a_point_of_the_full_pattern_and_calm_air_is_not_screened() {

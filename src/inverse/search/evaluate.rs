@@ -2,7 +2,7 @@
 //! solved, the pattern worked out when CU or spacing is wanted, every goal's
 //! shortfall; and the cost function argmin sees.
 
-use std::sync::atomic::{AtomicUsize, Ordering};
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 use std::sync::Mutex;
 
 use argmin::core::{CostFunction, Error as ArgminError};
@@ -185,6 +185,15 @@ pub(super) struct Problem<'a> {
     pub(super) screen: Fidelity,
     pub(super) archive: Mutex<Vec<Evaluation>>,
     pub(super) count: AtomicUsize,
+    /// Set by the caller to stop the search; read before every candidate.
+    pub(super) stop: &'a AtomicBool,
+}
+
+impl Problem<'_> {
+    /// Whether the caller has asked the search to stop.
+    pub(super) fn stopped(&self) -> bool {
+        self.stop.load(Ordering::Relaxed)
+    }
 }
 
 impl Problem<'_> {
@@ -368,6 +377,12 @@ impl CostFunction for Cost<'_, '_> {
     type Output = f64;
 
     fn cost(&self, u: &Self::Param) -> Result<f64, ArgminError> {
+        if self.problem.stopped() {
+            // Nothing is solved any more: a flat cost lets Nelder–Mead's
+            // spread test end the start within a few cheap iterations
+            // (argmin's Nelder–Mead does not take an error from the cost).
+            return Ok(0.0);
+        }
         let outside: f64 = u
             .iter()
             .map(|&x| (x - x.clamp(0.0, 1.0)).powi(2))

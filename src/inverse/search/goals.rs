@@ -299,6 +299,9 @@ pub enum SearchError {
     /// The optimiser failed.
     #[error("the optimiser stopped: {0}")]
     Optimiser(String),
+    /// The caller asked the search to stop before it finished.
+    #[error("the search was stopped before it finished")]
+    Stopped,
 }
 
 fn sets_supply(input: &Input) -> bool {

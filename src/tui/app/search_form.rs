@@ -7,9 +7,9 @@
 //! and the runners-up are listed: each can be pinned for Compare (`c`) or
 //! applied as an ordinary, undoable edit (Enter).
 //!
-//! The library search cannot be interrupted, so a cancelled search's thread
-//! finishes the starts it has under way in the background and its answer is
-//! dropped; the interface is free at once.
+//! Esc asks the search's thread to stop (every start ends at its next
+//! candidate) and frees the interface at once; whatever the thread still
+//! sends back is dropped.
 
 use ratatui::crossterm::event::{KeyCode, KeyEvent};
 
@@ -17,7 +17,7 @@ use super::task::{Poll, Task};
 use super::{App, Mode};
 use crate::catalogue::{self, Input, Search, Unit};
 use crate::inverse::search::{
-    search, Evaluation, Free, Goals, Objective, SearchError, SearchOptions, SearchResult,
+    search_until, Evaluation, Free, Goals, Objective, SearchError, SearchOptions, SearchResult,
 };
 use crate::inverse::target;
 use crate::physics::balance::rpm;
@@ -443,8 +443,10 @@ impl App {
         match panel {
             SearchPanel::Form(form) => self.key_form(a, k, form),
             SearchPanel::Running if a == Some(Action::CancelSearch) => {
-                // The thread's answer is dropped when it comes.
+                // The thread stops at its next candidate; what it sends
+                // back then is dropped with the job.
                 if let Some(job) = self.ask.search.take() {
+                    job.task.progress.ask_to_stop();
                     self.ask.last_form = Some(job.form);
                 }
                 self.info("search cancelled; the design is as it was");
@@ -505,13 +507,14 @@ impl App {
         let design = self.design.clone();
         let base = design.clone();
         let task = Task::spawn("spinwright-search", move |p| {
-            search(
+            search_until(
                 &design,
                 &request.free,
                 &request.goals,
                 request.objective,
                 &SearchOptions::default(),
                 &|done, total| p.set(done, total),
+                p.stop_flag(),
             )
         });
         self.ask.search = Some(SearchJob {

@@ -4,16 +4,18 @@
 //! through two counters, and hands its answer back on a channel that the
 //! event loop reads between frames, as the worker's results are.
 
-use std::sync::atomic::{AtomicUsize, Ordering};
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 use std::sync::mpsc::{self, Receiver, TryRecvError};
 use std::sync::Arc;
 use std::time::{Duration, Instant};
 
-/// How far a task has got: steps done out of steps known (0 when unknown).
+/// How far a task has got: steps done out of steps known (0 when unknown),
+/// and whether the interface has asked it to stop.
 #[derive(Debug, Default)]
 pub struct Progress {
     done: AtomicUsize,
     total: AtomicUsize,
+    stop: AtomicBool,
 }
 
 impl Progress {
@@ -21,6 +23,16 @@ impl Progress {
     pub fn set(&self, done: usize, total: usize) {
         self.done.store(done, Ordering::Relaxed);
         self.total.store(total, Ordering::Relaxed);
+    }
+
+    /// Asks the task to stop (a task that can stop reads [`Progress::stop_flag`]).
+    pub fn ask_to_stop(&self) {
+        self.stop.store(true, Ordering::Relaxed);
+    }
+
+    /// The flag [`Progress::ask_to_stop`] sets, for the task to read.
+    pub fn stop_flag(&self) -> &AtomicBool {
+        &self.stop
     }
 
     /// (done, total) as last recorded.

@@ -255,9 +255,15 @@ fn a_search_can_be_cancelled_and_a_bad_form_is_named() {
     fill(&mut a, Item::Rpm, "20..40");
     press(&mut a, KeyCode::Enter);
     assert_eq!(a.mode, Mode::Search(SearchPanel::Running));
+    let progress = a.ask.search.as_ref().map(|j| j.task.progress.clone());
     press(&mut a, KeyCode::Esc);
     assert_eq!(a.mode, Mode::Normal);
     assert!(a.ask.search.is_none());
+    // The search's thread was asked to stop, not left to run on.
+    let progress = progress.expect("the search's progress");
+    assert!(progress
+        .stop_flag()
+        .load(std::sync::atomic::Ordering::Relaxed));
     assert!(a.settle(SETTLE));
     assert!(message(&a).1.contains("cancelled"));
     // The form comes back with what was typed.
