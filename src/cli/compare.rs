@@ -121,25 +121,20 @@ pub fn run_compare(paths: &[PathBuf], o: Output, out: &mut dyn Write) -> Result<
                     .chain(c.names.iter().skip(1).map(|n| format!("Δ {n}"))),
             );
             for res in &c.results {
-                let better = res.larger_is_better();
                 let shown = ShownResult::new(res, units);
                 let cells = shown.values.iter().map(|v| sig(*v, 4));
                 let deltas = shown
                     .deltas
                     .iter()
                     .zip(&res.percents)
+                    .enumerate()
                     .skip(1)
-                    .map(|(d, p)| match (d, p) {
+                    .map(|(k, (d, p))| match (d, p) {
                         (Some(d), Some(p)) => {
-                            let mark = match better {
-                                Some(up) if *d != 0.0 => {
-                                    if (*d > 0.0) == up {
-                                        " better"
-                                    } else {
-                                        " worse"
-                                    }
-                                }
-                                _ => "",
+                            let mark = match res.better(k) {
+                                Some(true) => " better",
+                                Some(false) => " worse",
+                                None => "",
                             };
                             format!(
                                 "{} ({} %){mark}",

@@ -116,6 +116,22 @@ impl ResultComparison {
             _ => None,
         }
     }
+
+    /// Whether design `k` is better (`Some(true)`) or worse (`Some(false)`)
+    /// than the first on this result; `None` when neither is better, when
+    /// there is no value to compare, or when the change is under 0.05 % of
+    /// the first value (it would read 0.0 %).
+    pub fn better(&self, k: usize) -> Option<bool> {
+        let up = self.larger_is_better()?;
+        let d = self.deltas.get(k).copied().flatten()?;
+        let small = self
+            .percents
+            .get(k)
+            .copied()
+            .flatten()
+            .is_some_and(|p| p.abs() < 0.05);
+        (d != 0.0 && !small).then_some((d > 0.0) == up)
+    }
 }
 
 /// A key result supplied by the caller (throw, CU…), computed per design.
@@ -321,6 +337,26 @@ mod tests {
     use super::*;
     use crate::catalogue::NOZZLE_DIAMETER;
     use crate::physics::fixtures::three_arm_rotor;
+
+    #[test]
+    fn better_and_worse_only_for_merits_and_changes_that_show() {
+        let row = |key: &str, values: Vec<Option<f64>>| result_row(key, "", values);
+        let cu = row(
+            "cu_percent",
+            vec![Some(80.0), Some(84.0), Some(79.0), Some(80.02)],
+        );
+        assert_eq!(cu.better(0), None, "the first against itself");
+        assert_eq!(cu.better(1), Some(true));
+        assert_eq!(cu.better(2), Some(false));
+        // 0.025 % of the first value reads +0.0 %: no verdict.
+        assert_eq!(cu.better(3), None);
+        // Speed is a matter of design, not of merit.
+        let rpm = row("rpm", vec![Some(30.0), Some(40.0)]);
+        assert_eq!(rpm.better(1), None);
+        // A design without the result has no verdict.
+        let margin = row("start_margin", vec![Some(2.0), None]);
+        assert_eq!(margin.better(1), None);
+    }
 
     #[test]
     fn compare_lists_only_what_differs() {

@@ -72,6 +72,8 @@ pub struct App {
     pub(in crate::tui) design: Design,
     /// Edited since last saved.
     pub(in crate::tui) dirty: bool,
+    /// The design as last opened or saved (undoing back to it is not an edit).
+    as_saved: Design,
     /// The file it came from or was saved to.
     pub(in crate::tui) path: Option<PathBuf>,
     /// Where the file picker looks (`scenarios/` below it, and itself).
@@ -178,6 +180,7 @@ impl App {
         let arms = edit::arms_shown(&design);
         let rows = fields::rows(&design, arms);
         let mut app = App {
+            as_saved: design.clone(),
             design,
             notes: sc.notes.clone(),
             path,

@@ -102,6 +102,7 @@ impl App {
                 self.source_text = Some(text.clone());
                 self.disk_text = Some(text);
                 self.dirty = false;
+                self.as_saved = self.design.clone();
             }
             Err(e) => self.error(format!("not saved: {e}")),
         }
@@ -131,6 +132,7 @@ impl App {
                 self.source_text = Some(text.clone());
                 self.disk_text = Some(text);
                 self.dirty = false;
+                self.as_saved = self.design.clone();
                 self.history.clear();
                 self.arms = arms_shown(&self.design);
                 self.selected = 0;

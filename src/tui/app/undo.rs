@@ -68,7 +68,8 @@ impl App {
         } else {
             self.history.redo.push(now);
         }
-        self.dirty = true;
+        // Undoing every edit since the last save leaves nothing unsaved.
+        self.dirty = self.design != self.as_saved;
         self.resolve();
         self.info(format!(
             "{word} ({} more to undo, {} to redo)",

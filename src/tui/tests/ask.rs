@@ -335,10 +335,14 @@ fn undo_takes_back_nudges_and_typed_values_and_forgets_them_on_open() {
     assert_eq!(nozzle.number(&a.design), Some(3e-3));
     press(&mut a, KeyCode::Char('z'));
     assert_eq!(a.design, nudged);
+    assert!(a.dirty);
     press(&mut a, KeyCode::Char('z'));
     assert_eq!(a.design, first);
+    // Back to the design as opened: nothing is left unsaved.
+    assert!(!a.dirty);
     press(&mut a, KeyCode::Char('Z'));
     assert_eq!(a.design, nudged);
+    assert!(a.dirty);
     // A refused value is no edit: nothing to take back for it.
     type_value(&mut a, "-1mm");
     assert_eq!(a.design, nudged);

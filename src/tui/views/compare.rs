@@ -81,7 +81,6 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
                 to_display(dm, d, app.units) - to_display(dm, 0.0, app.units)
             })
         };
-        let better = r.larger_is_better();
         let mut cells = vec![Cell::from(label)];
         for (k, v) in r.values.iter().enumerate() {
             let base = v.map_or("—".to_string(), |v| num(shown(v)));
@@ -90,15 +89,10 @@ fn table(app: &App, c: &Comparison, width: u16) -> (Vec<Row<'static>>, Vec<Const
                 continue;
             }
             let d = r.deltas.get(k).copied().flatten();
-            let (mark, style) = match (d, better) {
-                (Some(d), Some(up)) if d != 0.0 => {
-                    if (d > 0.0) == up {
-                        (" ▲", t.good())
-                    } else {
-                        (" ▼", t.bad())
-                    }
-                }
-                _ => ("", Style::default()),
+            let (mark, style) = match r.better(k) {
+                Some(true) => (" ▲", t.good()),
+                Some(false) => (" ▼", t.bad()),
+                None => ("", Style::default()),
             };
             let pct = r.percents.get(k).copied().flatten();
             let text = match (d, pct) {
