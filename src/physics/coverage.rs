@@ -169,9 +169,13 @@ pub fn layout_overlap(
     };
     if design.wind.speed_m_s > 0.0 {
         let grid = head_pattern_in_wind(design, head, pattern_opts)?;
-        overlap(layout, &grid as &dyn HeadPattern, &opts)
+        Ok(overlap(layout, &grid as &dyn HeadPattern, &opts)?)
     } else {
-        overlap(layout, &head.throw.profile as &dyn HeadPattern, &opts)
+        Ok(overlap(
+            layout,
+            &head.throw.profile as &dyn HeadPattern,
+            &opts,
+        )?)
     }
 }
 

@@ -33,7 +33,7 @@
 
 use super::design::Layout;
 use super::pattern::{wetting_threshold_mm_h, PatternGrid, RadialProfile, M_S_TO_MM_H};
-use super::trajectory::{invalid, require_positive, ThrowError};
+use super::{invalid, require_positive, InvalidInput};
 use std::f64::consts::PI;
 
 /// Default catch cells along a row over one repeating cell.
@@ -89,7 +89,7 @@ impl MeasuredLeg {
     /// A leg from (distance m, rate mm/h) pairs in any order.
     ///
     /// Distances must be ≥ 0 and distinct, rates ≥ 0, at least two cans.
-    pub fn new(mut points: Vec<(f64, f64)>) -> Result<MeasuredLeg, ThrowError> {
+    pub fn new(mut points: Vec<(f64, f64)>) -> Result<MeasuredLeg, InvalidInput> {
         if points.len() < 2 {
             return Err(invalid(
                 "radial leg cans",
@@ -111,7 +111,7 @@ impl MeasuredLeg {
             .zip(points.iter().skip(1))
             .any(|(a, b)| a.0 == b.0)
         {
-            return Err(ThrowError::InvalidInput {
+            return Err(InvalidInput {
                 field: "radial leg".to_string(),
                 detail: "has two cans at the same distance".to_string(),
             });
@@ -199,9 +199,9 @@ pub fn low_count(n: usize, fraction: f64) -> usize {
     ((n as f64 * fraction).round() as usize).clamp(1, n.max(1))
 }
 
-fn validated(catches: &[f64]) -> Result<(Vec<f64>, f64), ThrowError> {
+fn validated(catches: &[f64]) -> Result<(Vec<f64>, f64), InvalidInput> {
     if catches.is_empty() {
-        return Err(ThrowError::InvalidInput {
+        return Err(InvalidInput {
             field: "catches".to_string(),
             detail: "are empty: at least one catch is needed".to_string(),
         });
@@ -213,7 +213,7 @@ fn validated(catches: &[f64]) -> Result<(Vec<f64>, f64), ThrowError> {
     }
     let mean = mean_of(catches.iter().copied());
     if mean <= 0.0 {
-        return Err(ThrowError::InvalidInput {
+        return Err(InvalidInput {
             field: "catches".to_string(),
             detail: "are all zero: nothing was caught to rate".to_string(),
         });
@@ -243,7 +243,7 @@ fn cu_of(catches: &[f64], mean: f64) -> f64 {
 
 /// Christiansen coefficient of uniformity, %, clamped at 0 (the formula
 /// goes negative when the mean deviation exceeds the mean).
-pub fn christiansen_cu_percent(catches: &[f64]) -> Result<f64, ThrowError> {
+pub fn christiansen_cu_percent(catches: &[f64]) -> Result<f64, InvalidInput> {
     let (_, mean) = validated(catches)?;
     Ok(cu_of(catches, mean).max(0.0))
 }
@@ -255,13 +255,13 @@ fn du_of(sorted: &[f64], mean: f64, fraction: f64) -> (f64, usize) {
 }
 
 /// Low-quarter distribution uniformity, % (quarter counted as in the module docs).
-pub fn du_low_quarter_percent(catches: &[f64]) -> Result<f64, ThrowError> {
+pub fn du_low_quarter_percent(catches: &[f64]) -> Result<f64, InvalidInput> {
     let (sorted, mean) = validated(catches)?;
     Ok(du_of(&sorted, mean, 0.25).0)
 }
 
 /// Low-half distribution uniformity, %.
-pub fn du_low_half_percent(catches: &[f64]) -> Result<f64, ThrowError> {
+pub fn du_low_half_percent(catches: &[f64]) -> Result<f64, InvalidInput> {
     let (sorted, mean) = validated(catches)?;
     Ok(du_of(&sorted, mean, 0.5).0)
 }
@@ -273,7 +273,7 @@ pub fn driest_quarter_runtime_factor(du_lq_percent: f64) -> Option<f64> {
 }
 
 /// All uniformity figures of a set of catches (any consistent unit: mm, mm/h, mL).
-pub fn uniformity(catches: &[f64]) -> Result<UniformityStats, ThrowError> {
+pub fn uniformity(catches: &[f64]) -> Result<UniformityStats, InvalidInput> {
     let (sorted, mean) = validated(catches)?;
     // Variance relative to the mean², so that large catches cannot overflow.
     let rel_var = mean_of(catches.iter().map(|c| ((c - mean) / mean).powi(2)));
@@ -397,7 +397,7 @@ pub fn overlap(
     layout: &Layout,
     head: &dyn HeadPattern,
     opts: &OverlapOptions,
-) -> Result<LayoutResult, ThrowError> {
+) -> Result<LayoutResult, InvalidInput> {
     let s = require_positive("head spacing (m)", layout.spacing_m())?;
     let l = require_positive("row spacing (m)", layout.rows_m())?;
     if opts.cells_along_row == 0 || opts.cells_along_row > 2000 {
@@ -409,7 +409,7 @@ pub fn overlap(
     }
     let reach = head.reach_m();
     if !(reach.is_finite() && reach > 0.0) {
-        return Err(ThrowError::InvalidInput {
+        return Err(InvalidInput {
             field: "head pattern".to_string(),
             detail: "wets nothing: no water to overlap".to_string(),
         });
@@ -417,7 +417,7 @@ pub fn overlap(
     // Heads within reach of one catch point: keep the overlap sum bounded.
     let heads_in_reach = PI * (reach + s + l).powi(2) / (s * l);
     if heads_in_reach > MAX_HEADS_IN_REACH {
-        return Err(ThrowError::InvalidInput {
+        return Err(InvalidInput {
             field: "head spacing".to_string(),
             detail: format!(
                 "of {s} m × {l} m is far too close for a head that wets {reach:.1} m \
@@ -535,7 +535,7 @@ pub fn intake_check(
     mean_rate_mm_h: f64,
     intake_mm_h: f64,
     surface_storage_mm: f64,
-) -> Result<IntakeVerdict, ThrowError> {
+) -> Result<IntakeVerdict, InvalidInput> {
     if !(mean_rate_mm_h.is_finite() && mean_rate_mm_h >= 0.0) {
         return Err(invalid(
             "application rate (mm/h)",
@@ -669,10 +669,10 @@ pub fn recommend_spacing(
     family: PatternFamily,
     goal: SpacingGoal,
     opts: &OverlapOptions,
-) -> Result<Option<LayoutResult>, ThrowError> {
+) -> Result<Option<LayoutResult>, InvalidInput> {
     let reach = head.reach_m();
     if !(reach.is_finite() && reach > 0.0) {
-        return Err(ThrowError::InvalidInput {
+        return Err(InvalidInput {
             field: "head pattern".to_string(),
             detail: "wets nothing: no spacing to recommend".to_string(),
         });

@@ -35,6 +35,42 @@ pub mod spray;
 pub mod torque;
 pub mod trajectory;
 
+/// A value handed to the model that it cannot take: which input, in words a
+/// technician recognises (with its unit), and what is wrong with it. The
+/// error of the layout and uniformity figures, and one kind of
+/// [`trajectory::ThrowError`].
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[error("{field} {detail}")]
+pub struct InvalidInput {
+    /// Which input, with its unit (`head spacing (m)`).
+    pub field: String,
+    /// What is wrong with it and what is expected.
+    pub detail: String,
+}
+
+/// An [`InvalidInput`] for `field` holding `value`, as any error that takes
+/// one (the caller's return type decides).
+pub(crate) fn invalid<E: From<InvalidInput>>(field: &str, value: f64, expected: &str) -> E {
+    let shown = if value.is_finite() {
+        format!("{value}")
+    } else {
+        "not a finite number".to_string()
+    };
+    E::from(InvalidInput {
+        field: field.to_string(),
+        detail: format!("is {shown}; expected {expected}"),
+    })
+}
+
+/// Checks that `value` is finite and strictly positive.
+pub(crate) fn require_positive(field: &str, value: f64) -> Result<f64, InvalidInput> {
+    if value.is_finite() && value > 0.0 {
+        Ok(value)
+    } else {
+        Err(invalid(field, value, "a positive number"))
+    }
+}
+
 /// A wetted-radius function supplied by the throw model: the wetted radius of
 /// a design, m (None when there is none, e.g. the rotor stalls). Field checks
 /// and target searches (in [`crate::inverse`]) take one so they need not run the throw themselves.

@@ -30,6 +30,7 @@ use super::breakup::{break_up, drag_factor, Breakup, IntactStream, JetModel};
 use super::design::{Wind, GRAVITY_M_S2};
 use super::fluid::{AirProps, WaterProps};
 use super::jet::JetExit;
+use super::InvalidInput;
 use crate::numeric::ode::{
     attempt, grow_factor, initial_step, shrink_factor, Attempt, DenseStep, State,
 };
@@ -42,7 +43,8 @@ pub use drag::{
     clift_gauvin, deformation_factor, schiller_naumann, DragLaw, DEFORMATION_FIT_MAX_M,
 };
 
-/// Errors from the throw, spray, pattern and layout calculations.
+/// Errors from the throw, spray and pattern calculations (the layout and
+/// uniformity figures fail only on an [`InvalidInput`], which converts into one).
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum ThrowError {
     /// An input value is out of its valid range.
@@ -84,29 +86,14 @@ pub enum ThrowError {
     },
 }
 
-/// Formats a number for an error message without ever printing NaN.
-pub(crate) fn shown(value: f64) -> String {
-    if value.is_finite() {
-        format!("{value}")
-    } else {
-        "not a finite number".to_string()
-    }
-}
+pub(crate) use super::{invalid, require_positive};
 
-/// Builds an [`ThrowError::InvalidInput`] for `field` holding `value`.
-pub(crate) fn invalid(field: &str, value: f64, expected: &str) -> ThrowError {
-    ThrowError::InvalidInput {
-        field: field.to_string(),
-        detail: format!("is {}; expected {expected}", shown(value)),
-    }
-}
-
-/// Checks that `value` is finite and strictly positive.
-pub(crate) fn require_positive(field: &str, value: f64) -> Result<f64, ThrowError> {
-    if value.is_finite() && value > 0.0 {
-        Ok(value)
-    } else {
-        Err(invalid(field, value, "a positive number"))
+impl From<InvalidInput> for ThrowError {
+    fn from(e: InvalidInput) -> Self {
+        ThrowError::InvalidInput {
+            field: e.field,
+            detail: e.detail,
+        }
     }
 }
 

@@ -26,7 +26,7 @@
 //! Grid cans count with equal weight, so they should stand on a uniform grid.
 
 use crate::physics::pattern::M_S_TO_MM_H;
-use crate::physics::trajectory::ThrowError;
+use crate::physics::InvalidInput;
 use std::f64::consts::PI;
 use std::path::Path;
 
@@ -79,7 +79,7 @@ pub enum CatchCanError {
         file: String,
         /// The cause.
         #[source]
-        source: ThrowError,
+        source: InvalidInput,
     },
 }
 
