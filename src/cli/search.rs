@@ -304,33 +304,17 @@ struct SensitivityJson {
 
 #[derive(Debug, Serialize)]
 struct SearchJson {
-    feasible: bool,
     objective: &'static str,
-    objective_value: Option<f64>,
-    rpm: Option<f64>,
-    wetted_radius_m: Option<f64>,
-    #[serde(skip_serializing_if = "Option::is_none")]
-    cu_percent: Option<f64>,
-    #[serde(skip_serializing_if = "Option::is_none")]
-    spacing_m: Option<f64>,
-    start_margin: Option<f64>,
-    flow_m3_s: Option<f64>,
+    /// The best design's figures, at the top level of the report.
+    #[serde(flatten)]
+    best: DesignJson,
     evaluations: usize,
-    values: BTreeMap<&'static str, f64>,
     runners_up: Vec<DesignJson>,
     binding: Vec<&'static str>,
     at_range_end: Vec<&'static str>,
     unmet: Vec<UnmetJson>,
     sensitivity: Vec<SensitivityJson>,
     written_to: Option<String>,
-}
-
-fn values_map(r: &SearchResult, e: &Evaluation) -> BTreeMap<&'static str, f64> {
-    r.free
-        .iter()
-        .zip(&e.values)
-        .map(|(f, &v)| (f.input.path, v))
-        .collect()
 }
 
 fn design_json(r: &SearchResult, e: &Evaluation) -> DesignJson {
@@ -343,7 +327,12 @@ fn design_json(r: &SearchResult, e: &Evaluation) -> DesignJson {
         spacing_m: e.spacing_m,
         start_margin: e.start_margin,
         flow_m3_s: e.flow_m3_s,
-        values: values_map(r, e),
+        values: r
+            .free
+            .iter()
+            .zip(&e.values)
+            .map(|(f, &v)| (f.input.path, v))
+            .collect(),
     }
 }
 
@@ -404,17 +393,9 @@ pub fn run(args: &SearchArgs, out: &mut dyn Write) -> Result<Outcome, CliError> 
     match args.output.format {
         Format::Json => {
             let j = SearchJson {
-                feasible: result.feasible(),
                 objective: objective.key(),
-                objective_value: best.objective,
-                rpm: best.rpm,
-                wetted_radius_m: best.wetted_radius_m,
-                cu_percent: best.cu_percent,
-                spacing_m: best.spacing_m,
-                start_margin: best.start_margin,
-                flow_m3_s: best.flow_m3_s,
+                best: design_json(&result, best),
                 evaluations: result.evaluations,
-                values: values_map(&result, best),
                 runners_up: result
                     .runners_up
                     .iter()
