@@ -15,7 +15,7 @@ use ratatui::crossterm::event::{KeyCode, KeyEvent};
 
 use super::task::{Poll, Task};
 use super::{App, Mode};
-use crate::catalogue::{self, Input, Search, Unit};
+use crate::catalogue::{Input, Search, Unit};
 use crate::inverse::search::{
     search_until, Evaluation, Free, Goals, Objective, SearchError, SearchOptions, SearchResult,
 };
@@ -338,12 +338,10 @@ pub fn read_form(form: &SearchForm, system: UnitSystem) -> Result<Request, Strin
                 goals.rpm = Some((lo, hi));
             }
             Item::MinThrow => {
-                goals.min_throw_m =
-                    Some(read_value(&catalogue::SQUARE_SPACING, t, system).map_err(fail)?)
+                goals.min_throw_m = Some(Unit::Dim(D::Length).parse(t, system).map_err(fail)?)
             }
             Item::MaxFlow => {
-                goals.max_flow_m3_s =
-                    Some(read_value(&catalogue::TOTAL_FLOW, t, system).map_err(fail)?)
+                goals.max_flow_m3_s = Some(Unit::Dim(D::Flow).parse(t, system).map_err(fail)?)
             }
             Item::MinMargin => goals.min_margin = Some(read_number(t, "a ratio").map_err(fail)?),
             Item::Cu => {
